@@ -1,0 +1,6 @@
+// scheme_upsert: create or update one Scheme node.
+// writes: Scheme. parameters: $key, $role, $title, $iri, $version, $source_file, $content_hash, $ingested_at.
+// safe to re-run.
+MERGE (s:Scheme {key: $key})
+SET s.role = $role, s.title = $title, s.iri = $iri, s.version = $version, s.source_file = $source_file,
+    s.content_hash = $content_hash, s.ingested_at = $ingested_at

@@ -1,0 +1,24 @@
+// schema: creates every table graftwork uses in an embedded LadybugDB store.
+// reads: nothing. writes: table definitions only. parameters: none. safe to re-run (IF NOT EXISTS).
+// Vectors live in their own table (Vector) because updating a list property with SET is slow on this engine;
+// a vector table is rewritten in bulk with COPY instead (see ENGINES.md). Vectors are raw float32 bytes (BLOB):
+// variable-length FLOAT[] columns lost mostly-zero vectors on COPY in ladybug 0.22 (tests/test_store_vectors.py).
+CREATE NODE TABLE IF NOT EXISTS Meta(key STRING, value STRING, PRIMARY KEY(key));
+CREATE NODE TABLE IF NOT EXISTS Scheme(key STRING, role STRING, title STRING, iri STRING, version STRING,
+    source_file STRING, content_hash STRING, ingested_at STRING, PRIMARY KEY(key));
+CREATE NODE TABLE IF NOT EXISTS Concept(uid STRING, scheme STRING, code STRING, iri STRING, pref_label STRING,
+    alt_labels STRING[], definition STRING, path STRING, depth INT64, is_leaf BOOLEAN, deprecated BOOLEAN,
+    retired BOOLEAN, content_hash STRING, PRIMARY KEY(uid));
+CREATE NODE TABLE IF NOT EXISTS Category(uid STRING, scheme STRING, code STRING, label STRING, path STRING,
+    depth INT64, is_leaf BOOLEAN, retired BOOLEAN, content_hash STRING, PRIMARY KEY(uid));
+CREATE NODE TABLE IF NOT EXISTS Item(uid STRING, source STRING, item_key STRING, title STRING, attributes STRING,
+    first_seen STRING, last_seen STRING, PRIMARY KEY(uid));
+CREATE NODE TABLE IF NOT EXISTS Run(id STRING, job STRING, started_at STRING, finished_at STRING, status STRING,
+    parameters STRING, counts STRING, message STRING, PRIMARY KEY(id));
+CREATE NODE TABLE IF NOT EXISTS Vector(key STRING, owner STRING, kind STRING, signal STRING, embedder STRING,
+    input_hash STRING, dim INT64, vec BLOB, PRIMARY KEY(key));
+CREATE REL TABLE IF NOT EXISTS BROADER(FROM Concept TO Concept, FROM Category TO Category);
+CREATE REL TABLE IF NOT EXISTS FILED_UNDER(FROM Item TO Category);
+CREATE REL TABLE IF NOT EXISTS MAPS_TO(FROM Category TO Concept, score DOUBLE, rank INT64, match_type STRING,
+    status STRING, method STRING, evidence STRING, run_id STRING, decided_by STRING, decided_at STRING, note STRING);
+CREATE REL TABLE IF NOT EXISTS PLACED_IN(FROM Item TO Concept, via STRING, score DOUBLE, status STRING);

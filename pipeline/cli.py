@@ -1,0 +1,258 @@
+"""The `graftwork` command: parse options, call one library function, print its result.
+
+Exit codes: 0 ok, 1 failed, 2 bad input, 3 another job holds the store (DESIGN.md).
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import logging
+import os
+import sys
+from pathlib import Path
+
+from pipeline import __version__
+from pipeline.errors import GraftworkError
+from pipeline.store import DEFAULT_STORE, open_store
+
+log = logging.getLogger("graftwork")
+
+
+def _global_options(parser: argparse.ArgumentParser, *, suppress: bool) -> None:
+    d = argparse.SUPPRESS if suppress else None
+    parser.add_argument("--store", default=d, metavar="PATH",
+                        help=f"embedded store file (default ./{DEFAULT_STORE})")
+    parser.add_argument("--neo4j", default=d, metavar="URI",
+                        help="use a Neo4j database instead (user/password from GRAFTWORK_NEO4J_USER/_PASSWORD)")
+    parser.add_argument("--config", default=d, metavar="FILE", help="graftwork.toml")
+    parser.add_argument("--json", action="store_true", default=d, help="machine-readable output")
+    parser.add_argument("-v", "--verbose", action="count", default=d, help="more log output")
+
+
+def build_parser() -> argparse.ArgumentParser:
+    common = argparse.ArgumentParser(add_help=False)
+    _global_options(common, suppress=True)
+    p = argparse.ArgumentParser(prog="graftwork", description="Keep a scored crosswalk from source taxonomies "
+                                "onto one reference hierarchy, in a graph.")
+    p.add_argument("--version", action="version", version=f"graftwork {__version__}")
+    _global_options(p, suppress=False)
+    sub = p.add_subparsers(dest="command", required=True, metavar="COMMAND")
+
+    ingest = sub.add_parser("ingest", help="load a reference, a source taxonomy or items", parents=[common])
+    isub = ingest.add_subparsers(dest="what", required=True, metavar="WHAT")
+    ref = isub.add_parser("reference", help="reference hierarchy (RDF: SKOS or RDFS/OWL; or a tree CSV)",
+                          parents=[common])
+    ref.add_argument("file")
+    ref.add_argument("--format", default="rdf", choices=["rdf", "tree"], dest="fmt")
+    ref.add_argument("--rdf-format", help="turtle, xml, nt, json-ld (default: from the file extension)")
+    ref.add_argument("--lang", default="en", help="label language, with fallback (default en)")
+    ref.add_argument("--root", metavar="IRI", help="ingest only this concept and its descendants")
+    ref.add_argument("--scheme", metavar="KEY", help="key for this reference (default: from the file name)")
+    ref.add_argument("--code-column", default="code")
+    ref.add_argument("--label-column", default="label")
+    ref.add_argument("--parent-column", default="parent_code")
+
+    src = isub.add_parser("source", help="a source taxonomy: tree, paths or tags CSV", parents=[common])
+    src.add_argument("key")
+    src.add_argument("file")
+    src.add_argument("--format", default="tree", choices=["tree", "paths", "tags"], dest="fmt")
+    src.add_argument("--separator", default=" > ", help="path separator for --format paths (default ' > ')")
+    src.add_argument("--code-column", default="code")
+    src.add_argument("--label-column", default="label")
+    src.add_argument("--parent-column", default="parent_code")
+    src.add_argument("--path-column", default="path")
+    src.add_argument("--tag-column", default="tag")
+
+    items = isub.add_parser("items", help="member items of a source (CSV or Parquet)", parents=[common])
+    items.add_argument("key")
+    items.add_argument("file")
+    items.add_argument("--key-column", default="item_key")
+    items.add_argument("--title-column", default="title")
+    items.add_argument("--category-column", default="category")
+    items.add_argument("--category-separator", default="|",
+                       help="separator inside the category column (default '|'; '' = one category per row)")
+    items.add_argument("--attributes", help="comma-separated columns kept as attributes (default: all others)")
+    items.add_argument("--rejects", metavar="FILE", help="where malformed rows go (default: beside the store)")
+    items.add_argument("--batch-size", type=int, default=50_000)
+
+    emb = sub.add_parser("embed", help="write category and concept vectors", parents=[common])
+    emb.add_argument("--embedder", default="static", choices=["static", "lexical", "transformer"])
+
+    mp = sub.add_parser("map", help="score MAPS_TO edges from source categories to reference concepts",
+                        parents=[common])
+    mp.add_argument("--source", action="append", metavar="KEY", help="only this source (repeatable)")
+    mp.add_argument("--reference", metavar="KEY")
+    mp.add_argument("--candidates", type=int, default=5, help="edges kept per category (default 5)")
+    mp.add_argument("--auto-threshold", type=float, default=None, help="rank-1 score that makes an edge auto")
+    mp.add_argument("--floor", type=float, default=None, help="no edge below this score")
+
+    pl = sub.add_parser("place", help="place items on concepts through the live edges", parents=[common])
+    pl.add_argument("--source", action="append", metavar="KEY")
+    pl.add_argument("--reference", metavar="KEY")
+
+    q = sub.add_parser("query", help="ask the combined data", parents=[common])
+    qsub = q.add_subparsers(dest="query", required=True, metavar="QUERY")
+    ru = qsub.add_parser("rollup", help="items per reference concept (with descendants), by source",
+                         parents=[common])
+    ru.add_argument("--concept", metavar="CODE", help="start at this concept (default: the top level)")
+    ru.add_argument("--depth", type=int, default=1, help="levels to show (below --concept, if given)")
+    ru.add_argument("--reference", metavar="KEY")
+    ru.add_argument("--csv", metavar="FILE", help="also write the table as CSV")
+    ru.add_argument("--include-proposed", action="store_true", help="count items placed through proposed edges")
+
+    ex = sub.add_parser("export", help="write the crosswalk out", parents=[common])
+    xsub = ex.add_subparsers(dest="what", required=True, metavar="WHAT")
+    xm = xsub.add_parser("mappings", help="MAPS_TO edges", parents=[common])
+    xm.add_argument("out")
+    xm.add_argument("--format", default="csv", dest="fmt")
+    xm.add_argument("--candidates", type=int, default=1, help="ranks per category (default 1)")
+    xm.add_argument("--source", action="append", metavar="KEY")
+
+    sub.add_parser("status", help="what is in the store, and the last runs", parents=[common])
+
+    demo = sub.add_parser("demo", help="build the invented demo scenario end to end", parents=[common])
+    demo.add_argument("--data", default="demo_data", help="scenario folder (generated if absent)")
+    demo.add_argument("--items", type=int, default=30_000, help="items to generate (default 30000)")
+    demo.add_argument("--seed", type=int, default=7)
+    demo.add_argument("--embedder", default="static", choices=["static", "lexical", "transformer"])
+    return p
+
+
+def main(argv: list[str] | None = None) -> int:
+    args = build_parser().parse_args(argv)
+    logging.basicConfig(level=logging.WARNING - 10 * min(2, args.verbose or 0),
+                        format="%(levelname)s %(name)s: %(message)s")
+    try:
+        result = _dispatch(args)
+    except GraftworkError as exc:
+        print(f"graftwork: {exc}", file=sys.stderr)
+        return exc.exit_code
+    except KeyboardInterrupt:
+        print("graftwork: interrupted; the last batch was rolled back, re-run to continue", file=sys.stderr)
+        return 1
+    if result is not None:
+        _print(result, as_json=bool(args.json))
+    return 0
+
+
+def _open(args, *, read_only: bool = False):
+    return open_store(args.store or os.environ.get("GRAFTWORK_STORE") or DEFAULT_STORE, neo4j=args.neo4j,
+                      read_only=read_only)
+
+
+def _dispatch(args):
+    from pipeline.jobs.ledger import ledger
+
+    cmd = args.command
+    if cmd == "demo":
+        from pipeline.jobs.demo import run_demo
+
+        return run_demo(args.store or DEFAULT_STORE, data_dir=args.data, n_items=args.items, seed=args.seed,
+                        embedder=args.embedder, out=None if args.json else sys.stdout)
+    if cmd == "status":
+        from pipeline.jobs.status import store_status
+
+        with _open(args, read_only=True) as store:
+            return store_status(store)
+    if cmd == "query":
+        from pipeline.query.rollup import LIVE, rollup
+
+        with _open(args, read_only=True) as store:
+            statuses = LIVE + (("proposed",) if args.include_proposed else ())
+            df = rollup(store, concept=args.concept, depth=args.depth, reference=args.reference, statuses=statuses)
+        if args.csv:
+            df.to_csv(args.csv, index=False)
+        return df
+    if cmd == "export":
+        from pipeline.exchange.exporters import export_mappings
+
+        with _open(args, read_only=True) as store:
+            return export_mappings(store, args.out, fmt=args.fmt, candidates=args.candidates, sources=args.source)
+
+    with _open(args) as store:
+        params = {k: v for k, v in vars(args).items() if k not in ("store", "neo4j", "json", "verbose")}
+        with ledger(store, f"{cmd} {getattr(args, 'what', '')}".strip(), params) as run:
+            run["counts"] = _write_command(store, args, run["run_id"])
+            return run["counts"]
+
+
+def _write_command(store, args, run_id: str):
+    cmd = args.command
+    if cmd == "ingest" and args.what == "reference":
+        from pipeline.ingest.reference_job import ingest_reference
+
+        cols = {"code_col": args.code_column, "label_col": args.label_column, "parent_col": args.parent_column}
+        return ingest_reference(store, args.file, fmt=args.fmt, scheme=args.scheme, lang=args.lang,
+                                root=args.root, rdf_format=args.rdf_format,
+                                columns=cols if args.fmt == "tree" else None)
+    if cmd == "ingest" and args.what == "source":
+        from pipeline.ingest.source_job import ingest_source
+
+        return ingest_source(store, args.key, args.file, fmt=args.fmt, code_col=args.code_column,
+                             label_col=args.label_column, parent_col=args.parent_column,
+                             path_col=args.path_column, separator=args.separator, tag_col=args.tag_column)
+    if cmd == "ingest" and args.what == "items":
+        from pipeline.ingest.items_job import ingest_items
+
+        attrs = [a.strip() for a in args.attributes.split(",")] if args.attributes else None
+        return ingest_items(store, args.key, args.file, reject_file=args.rejects, batch_size=args.batch_size,
+                            key_col=args.key_column, title_col=args.title_column,
+                            category_col=args.category_column, category_separator=args.category_separator or None,
+                            attribute_cols=attrs)
+    if cmd == "embed":
+        from pipeline.embed.embed_job import embed
+
+        return embed(store, embedder=args.embedder)
+    if cmd == "map":
+        from pipeline.match.map_job import MapSettings, map_sources
+
+        settings = MapSettings(candidates=args.candidates)
+        if args.auto_threshold is not None:
+            settings.auto_threshold = args.auto_threshold
+        if args.floor is not None:
+            settings.floor = args.floor
+        return map_sources(store, sources=args.source, reference=args.reference, settings=settings, run_id=run_id)
+    if cmd == "place":
+        from pipeline.place.place_job import place
+
+        return place(store, sources=args.source, reference=args.reference)
+    raise GraftworkError(f"unknown command {cmd}")
+
+
+def _print(result, *, as_json: bool) -> None:
+    import pandas as pd
+
+    if isinstance(result, pd.DataFrame):
+        if as_json:
+            print(result.to_json(orient="records"))
+        else:
+            print(result.to_string(index=False) if len(result) else "(no rows)")
+        return
+    if as_json:
+        print(json.dumps(result, default=str, indent=None))
+        return
+    print(_human(result))
+
+
+def _human(obj, indent: int = 0) -> str:
+    pad = "  " * indent
+    if isinstance(obj, dict):
+        lines = []
+        for k, v in obj.items():
+            if isinstance(v, (dict, list)) and v:
+                lines.append(f"{pad}{k}:")
+                lines.append(_human(v, indent + 1))
+            else:
+                lines.append(f"{pad}{k}: {v}")
+        return "\n".join(lines)
+    if isinstance(obj, list):
+        return "\n".join(
+            f"{pad}- " + ", ".join(f"{k}={v}" for k, v in x.items()) if isinstance(x, dict) else f"{pad}- {x}"
+            for x in obj
+        )
+    return f"{pad}{obj}"
+
+
+if __name__ == "__main__":
+    sys.exit(main())

@@ -1,0 +1,1 @@
+"""Exchange: the crosswalk in and out of the store, in open formats."""

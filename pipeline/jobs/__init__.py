@@ -1,0 +1,1 @@
+"""Jobs: whole-pipeline runs (demo, nightly) and the run ledger."""

@@ -1,0 +1,33 @@
+"""Job: (re)place items on reference concepts through the live MAPS_TO edges of their categories."""
+
+from __future__ import annotations
+
+from pipeline.errors import NotFound
+from pipeline.match.map_job import _pick_reference
+from pipeline.store import Store
+
+BLOCK = 2_000  # categories per transaction: bounded memory, and a kill loses at most one block of work
+
+
+def place(store: Store, *, sources: list[str] | None = None, categories: list[str] | None = None,
+          reference: str | None = None) -> dict:
+    """Re-place the items of `categories` (uids), or of every category of `sources` (default: all sources).
+    Each block of categories is cleared and placed in one transaction, so a re-run converges."""
+    schemes = store.rows("schemes_list")
+    reference = _pick_reference(schemes, reference)
+    if categories is None:
+        known = [s["key"] for s in schemes if s["role"] == "source"]
+        chosen = sources or known
+        unknown = [s for s in chosen if s not in known]
+        if unknown:
+            raise NotFound(f"unknown source(s): {', '.join(unknown)}")
+        categories = [u for s in chosen for u in store.frame("source_category_uids", scheme=s)["uid"]]
+    for start in range(0, len(categories), BLOCK):
+        block = list(categories[start:start + BLOCK])
+        with store.transaction():
+            store.run("placements_clear", uids=block)
+            store.run("placements_create", uids=block, reference=reference)
+    placed = store.frame("count_placed", reference=reference)
+    return {"reference": reference, "categories": len(categories),
+            "placements": int(placed["placements"].iloc[0]) if len(placed) else 0,
+            "items_placed": int(placed["items"].iloc[0]) if len(placed) else 0}

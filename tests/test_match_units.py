@@ -1,0 +1,90 @@
+"""Candidate retrieval and hierarchy-aware re-ranking, on tiny literal inputs."""
+
+import numpy as np
+import pandas as pd
+
+from pipeline.match.candidates import stack_signals, top_k
+from pipeline.match.hierarchy_view import HierarchyView
+from pipeline.match.match_type import match_type
+from pipeline.match.normalise import normalise_label
+from pipeline.match.rank import RankSettings, rerank
+
+
+def test_top_k_matches_a_full_sort_in_every_block():
+    rng = np.random.default_rng(3)
+    q = rng.standard_normal((37, 8)).astype(np.float32)
+    r = rng.standard_normal((50, 8)).astype(np.float32)
+    idx, sc = top_k(q, r, k=4, block=5)
+    full = q @ r.T
+    expected = np.argsort(-full, axis=1, kind="stable")[:, :4]
+    assert np.array_equal(idx, expected)
+    assert np.allclose(sc, np.take_along_axis(full, expected, axis=1))
+
+
+def test_stacked_signals_give_the_weighted_sum_of_cosines():
+    rng = np.random.default_rng(4)
+    a, b, c, d = (rng.standard_normal((3, 5)).astype(np.float32) for _ in range(4))
+    q, r = stack_signals([(a, b, 0.7), (c, d, 0.3)])
+    assert np.allclose(q @ r.T, 0.7 * a @ b.T + 0.3 * c @ d.T, atol=1e-5)
+
+
+def _view(rows):
+    return HierarchyView.from_rows(pd.DataFrame(rows, columns=["uid", "code", "label", "depth", "is_leaf", "parent"]))
+
+
+# reference: R > G "Mixed farming" > C "Mixed farming" (a title repeated at two levels), and X elsewhere
+CONCEPTS = _view([
+    ("r", "R", "Farming", 1, False, None),
+    ("g", "G", "Mixed farming", 2, False, "r"),
+    ("c", "C", "Mixed farming", 3, True, "g"),
+    ("x", "X", "Fishing", 1, True, None),
+])
+
+
+def test_repeated_title_goes_to_the_deeper_concept_for_a_leaf_category():
+    cats = _view([("s1", "1", "Mixed farming", 1, True, None)])
+    ranked = rerank(cats, CONCEPTS, np.array([[1, 2, 3]]), np.array([[0.90, 0.89, 0.2]], np.float32))
+    assert ranked[0].concepts[0] == 2  # "c", the leaf
+
+
+def test_repeated_title_stays_on_the_inner_concept_for_an_inner_category():
+    cats = _view([("s1", "1", "Mixed farming", 1, False, None), ("s2", "2", "Mixed farming", 2, True, "s1")])
+    ranked = rerank(cats, CONCEPTS, np.array([[2, 1, 3], [1, 2, 3]]),
+                    np.array([[0.90, 0.89, 0.2], [0.90, 0.89, 0.2]], np.float32))
+    assert ranked[0].concepts[0] == 1  # inner category -> inner concept "g"
+    assert ranked[1].concepts[0] == 2  # its leaf child -> leaf concept "c"
+
+
+def test_a_clear_winner_is_not_overridden_by_the_repeated_title_rule():
+    cats = _view([("s1", "1", "Mixed farming", 1, True, None)])
+    ranked = rerank(cats, CONCEPTS, np.array([[1, 2]]), np.array([[0.95, 0.80]], np.float32))
+    assert ranked[0].concepts[0] == 1
+
+
+def test_parent_choice_gives_a_bonus_to_candidates_under_it():
+    cats = _view([("p", "P", "Farming", 1, False, None), ("k", "K", "Fish and farms", 2, True, "p")])
+    idx = np.array([[0, 3], [3, 2]])
+    sc = np.array([[0.9, 0.1], [0.50, 0.48]], np.float32)
+    ranked = rerank(cats, CONCEPTS, idx, sc, settings=RankSettings(parent_bonus=0.05, tie_margin=0.0))
+    assert ranked[1].concepts[0] == 2  # "c" sits under "r", the parent's choice: 0.48 + 0.05 beats 0.50
+    assert ranked[1].bonus[0] == 0.05
+
+
+def test_rejected_concepts_are_never_candidates():
+    cats = _view([("s1", "1", "Fishing", 1, True, None)])
+    ranked = rerank(cats, CONCEPTS, np.array([[3, 0]]), np.array([[0.99, 0.1]], np.float32), excluded={0: {3}})
+    assert 3 not in ranked[0].concepts
+
+
+def test_ancestors_of_a_multi_parent_node():
+    v = _view([("a", "A", "A", 1, False, None), ("b", "B", "B", 1, False, None), ("c", "C", "C", 2, True, "a"),
+               ("c", "C", "C", 2, True, "b"), ("d", "D", "D", 3, True, "c")])
+    anc = v.ancestors()
+    assert anc[v.uids.index("d")] == {v.uids.index(x) for x in "abc"}
+
+
+def test_match_type_rules():
+    assert normalise_label("Pots & Planters") == "pots and planters"
+    assert match_type("Pots & planters", ["Pots and planters"], shared_with_family=False, split=False) == "exactMatch"
+    assert match_type("Secateurs", ["Pruning tools"], shared_with_family=True, split=False) == "broadMatch"
+    assert match_type("Secateurs", ["Pruning tools"], shared_with_family=False, split=False) == "closeMatch"

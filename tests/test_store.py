@@ -1,0 +1,113 @@
+"""The embedded store: schema on first open, clear errors for foreign files and locks, vectors that round-trip."""
+
+import subprocess
+import sys
+
+import numpy as np
+import pandas as pd
+import pytest
+
+from pipeline.errors import NotAStore, StoreLocked
+from pipeline.store import open_store
+
+
+def test_schema_is_created_once_and_reopens(tmp_path):
+    path = tmp_path / "s.lbug"
+    with open_store(path) as s:
+        s.run("meta_set", key="probe", value="1")
+    with open_store(path) as s:  # a second open must not try to create the tables again
+        assert s.scalar("meta_get", key="probe") == "1"
+        assert s.scalar("meta_get", key="schema_version") == "1"
+
+
+def test_a_file_that_is_not_a_store_is_refused(tmp_path):
+    bad = tmp_path / "notes.lbug"
+    bad.write_text("just some text\n")
+    with pytest.raises(NotAStore, match="not a graftwork store"):
+        open_store(bad)
+    assert bad.read_text() == "just some text\n"
+
+
+def test_a_foreign_ladybug_database_is_refused(tmp_path):
+    import ladybug
+
+    path = tmp_path / "other.lbug"
+    db = ladybug.Database(str(path))
+    conn = ladybug.Connection(db)
+    conn.execute("CREATE NODE TABLE Person(name STRING, PRIMARY KEY(name))")
+    conn.close()
+    db.close()
+    with pytest.raises(NotAStore, match="no Meta table"):
+        open_store(path)
+
+
+def test_a_folder_is_refused(tmp_path):
+    with pytest.raises(NotAStore, match="folder"):
+        open_store(tmp_path)
+
+
+def test_read_only_open_of_a_missing_store_says_so(tmp_path):
+    with pytest.raises(NotAStore, match="no graftwork store"):
+        open_store(tmp_path / "missing.lbug", read_only=True)
+    assert not (tmp_path / "missing.lbug").exists()
+
+
+def test_a_second_writer_process_gets_store_locked(tmp_path):
+    path = tmp_path / "s.lbug"
+    with open_store(path):
+        code = (
+            "import sys\n"
+            "from pipeline.store import open_store\n"
+            "from pipeline.errors import StoreLocked\n"
+            "try:\n"
+            f"    open_store({str(path)!r})\n"
+            "except StoreLocked as e:\n"
+            "    print('LOCKED', e.exit_code)\n"
+        )
+        out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=60)
+    assert "LOCKED 3" in out.stdout, out.stderr
+
+
+def test_transaction_rolls_back_everything_on_error(tmp_path):
+    with open_store(tmp_path / "s.lbug") as s:
+        with pytest.raises(RuntimeError, match="boom"):
+            with s.transaction():
+                s.run("meta_set", key="a", value="1")
+                raise RuntimeError("boom")
+        assert s.scalar("meta_get", key="a") is None
+
+
+def test_vectors_round_trip_bit_exact_and_replace_only_their_owners(tmp_path):
+    rng = np.random.default_rng(0)
+    m = rng.standard_normal((5, 16)).astype(np.float32)
+    with open_store(tmp_path / "s.lbug") as s:
+        s.put_vectors("Concept", "path", "e1", list("abcde"), ["h"] * 5, m)
+        s.put_vectors("Concept", "path", "e2", ["c"], ["h2"], np.ones((1, 16), np.float32))
+        got = s.get_vectors("Concept", "path")
+        assert got.owners == list("abcde")
+        expected = m.copy()
+        expected[2] = 1.0
+        assert np.array_equal(got.matrix, expected)
+        assert got.embedders == ["e1", "e1", "e2", "e1", "e1"]
+        assert len(s.get_vectors("Concept", "label")) == 0
+
+
+def test_mostly_zero_vectors_survive_many_bulk_writes(tmp_path):
+    # Regression: ladybug 0.22 stored zeros for sparse vectors in a FLOAT[] column after a few COPYs
+    # (found while building the store; vectors are now kept as float32 bytes).
+    rng = np.random.default_rng(0)
+    with open_store(tmp_path / "s.lbug") as s:
+        for i in range(8):
+            m = np.zeros((3, 64), np.float32)
+            m[np.arange(3), rng.integers(0, 64, 3)] = [1.0, 0.7, 0.5]
+            s.put_vectors("Category", f"sig{i}", "e", ["a", "b", "c"], ["h"] * 3, m)
+            assert np.array_equal(s.get_vectors("Category", f"sig{i}").matrix, m)
+
+
+def test_bulk_upsert_is_idempotent(tmp_path):
+    rows = pd.DataFrame({"uid": ["s:1"], "source": ["s"], "item_key": ["1"], "title": ["t"], "attributes": ["{}"]})
+    with open_store(tmp_path / "s.lbug") as s:
+        s.bulk("items_upsert", rows, now="2026-01-01")
+        s.bulk("items_upsert", rows.assign(title="t2"), now="2026-01-02")
+        nodes = s.frame("count_nodes")
+    assert nodes[nodes.kind == "Item"]["n"].tolist() == [1]
