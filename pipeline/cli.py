@@ -128,6 +128,9 @@ def main(argv: list[str] | None = None) -> int:
     except GraftworkError as exc:
         print(f"graftwork: {exc}", file=sys.stderr)
         return exc.exit_code
+    except (FileNotFoundError, IsADirectoryError, PermissionError) as exc:
+        print(f"graftwork: {exc.filename}: {exc.strerror}", file=sys.stderr)
+        return 2
     except KeyboardInterrupt:
         print("graftwork: interrupted; the last batch was rolled back, re-run to continue", file=sys.stderr)
         return 1
@@ -148,8 +151,9 @@ def _dispatch(args):
     if cmd == "demo":
         from pipeline.jobs.demo import run_demo
 
-        return run_demo(args.store or DEFAULT_STORE, data_dir=args.data, n_items=args.items, seed=args.seed,
-                        embedder=args.embedder, out=None if args.json else sys.stdout)
+        summary = run_demo(args.store or DEFAULT_STORE, data_dir=args.data, n_items=args.items, seed=args.seed,
+                           embedder=args.embedder, out=None if args.json else sys.stdout)
+        return summary if args.json else None  # the human report was printed as the demo went
     if cmd == "status":
         from pipeline.jobs.status import store_status
 

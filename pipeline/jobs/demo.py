@@ -40,11 +40,14 @@ def run_demo(store_path: str | Path, *, data_dir: str | Path = "demo_data", n_it
             for src in files.sources:
                 cols = src.get("columns", {})
                 steps[f"source {src['key']}"] = ingest_source(store, src["key"], src["taxonomy"], fmt=src["format"],
-                                                             separator=src.get("separator", " > "),
+                                                             separator=src.get("separator") or " > ",
                                                              **_taxonomy_columns(cols))
-                steps[f"items {src['key']}"] = ingest_items(store, src["key"], src["items"], **_item_columns(cols))
-                say(f"  source {src['key']} ({src['format']}): {steps[f'source {src['key']}']['categories']} "
-                    f"categories, {steps[f'items {src['key']}']['rows_items']} item rows")
+                steps[f"items {src['key']}"] = ingest_items(
+                    store, src["key"], src["items"], category_separator=src.get("category_separator") or "|",
+                    **_item_columns(cols))
+                key = src["key"]
+                say(f"  source {key} ({src['format']}): {steps['source ' + key]['categories']} categories, "
+                    f"{steps['items ' + key]['rows_items']} item rows, {steps['items ' + key]['rejected']} rejected")
             steps["embed"] = embed(store, embedder=embedder)
             say(f"  embedded {steps['embed']['embedded']} texts ({steps['embed']['skipped']} unchanged)")
             steps["map"] = map_sources(store, run_id=run["run_id"])
@@ -68,11 +71,10 @@ def run_demo(store_path: str | Path, *, data_dir: str | Path = "demo_data", n_it
 
 
 def _taxonomy_columns(cols: dict) -> dict:
-    names = {"code": "code_col", "label": "label_col", "parent_code": "parent_col", "path": "path_col",
-             "tag": "tag_col"}
+    names = {"code": "code_col", "label": "label_col", "parent": "parent_col", "path": "path_col", "tag": "tag_col"}
     return {names[k]: v for k, v in cols.items() if k in names}
 
 
 def _item_columns(cols: dict) -> dict:
-    names = {"item_key": "key_col", "title": "title_col", "category": "category_col"}
+    names = {"key": "key_col", "title": "title_col", "category": "category_col"}
     return {names[k]: v for k, v in cols.items() if k in names}

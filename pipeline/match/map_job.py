@@ -18,7 +18,7 @@ from pipeline.errors import BadInput, NotFound, Problem
 from pipeline.match.candidates import stack_signals, top_k
 from pipeline.match.hierarchy_view import HierarchyView
 from pipeline.match.match_type import match_type
-from pipeline.match.rank import RankSettings, rerank
+from pipeline.match.rank import RankSettings, learn_depth_prior, rerank
 from pipeline.store import Store
 
 log = logging.getLogger(__name__)
@@ -36,6 +36,7 @@ class MapSettings:
     pool: int = 25               # text candidates re-ranked by the hierarchy rules
     parent_bonus: float = 0.05
     tie_margin: float = 0.02
+    depth_weight: float = 0.10
 
 
 def map_sources(store: Store, *, sources: list[str] | None = None, reference: str | None = None,
@@ -111,8 +112,14 @@ def _map_one(store: Store, source: str, reference: str, concept_side, settings: 
                 excluded[kpos[cat]].add(cpos[con])
             else:
                 fixed[kpos[cat]] = cpos[con]
-    ranked = rerank(cats, concepts, idx, sc, excluded=excluded, fixed_top=fixed,
-                    settings=RankSettings(parent_bonus=settings.parent_bonus, tie_margin=settings.tie_margin))
+    rank_settings = RankSettings(parent_bonus=settings.parent_bonus, tie_margin=settings.tie_margin,
+                                 depth_weight=settings.depth_weight)
+    ranked = rerank(cats, concepts, idx, sc, excluded=excluded, fixed_top=fixed, settings=rank_settings)
+    if settings.depth_weight > 0:
+        # Second pass: the depth agreement the confident first-pass choices show, applied to every category.
+        prior = learn_depth_prior(cats, concepts, ranked, sample=rank_settings.depth_sample)
+        ranked = rerank(cats, concepts, idx, sc, excluded=excluded, fixed_top=fixed, settings=rank_settings,
+                        depth_prior=prior)
 
     top = {ci: (fixed.get(ci) if ci in fixed else (rk.concepts[0] if rk.concepts else None))
            for ci, rk in enumerate(ranked)}

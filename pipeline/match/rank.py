@@ -21,6 +21,8 @@ from pipeline.match.hierarchy_view import HierarchyView
 class RankSettings:
     parent_bonus: float = 0.05
     tie_margin: float = 0.02
+    depth_weight: float = 0.10   # weight of the learned depth-agreement prior (0 = off)
+    depth_sample: float = 0.5    # share of first-pass choices (the most confident) the prior is learned from
 
 
 @dataclass
@@ -40,6 +42,7 @@ def rerank(
     excluded: dict[int, set[int]] | None = None,
     fixed_top: dict[int, int] | None = None,
     settings: RankSettings | None = None,
+    depth_prior: np.ndarray | None = None,
 ) -> list[Ranked]:
     """Re-rank candidates of every category, parents first so children can use the parent's choice.
 
@@ -59,6 +62,8 @@ def rerank(
         scored = []
         for j, s in cands:
             b = settings.parent_bonus if any(p == j or p in anc[j] for p in parent_tops) else 0.0
+            if depth_prior is not None:
+                b += settings.depth_weight * float(depth_prior[cats.depth[ci], concepts.depth[j]])
             scored.append((j, s + b, s, b))
         scored.sort(key=lambda t: (-t[1], t[0]))
         scored = _resolve_repeated_titles(scored, ci, cats, concepts, anc, settings.tie_margin)
@@ -89,3 +94,26 @@ def _resolve_repeated_titles(scored, ci, cats, concepts, anc, margin):
     rest = [t for t in scored if t is not winner]
     lifted = (winner[0], best[1], winner[2], winner[3])
     return [lifted] + rest
+
+
+def learn_depth_prior(cats: HierarchyView, concepts: HierarchyView, ranked: list[Ranked], *,
+                      sample: float = 0.5) -> np.ndarray:
+    """P(concept depth | category depth), estimated from the most confident first-pass choices.
+
+    Where the two hierarchies line up level by level, this favours the same level; where a deep source maps into a
+    coarser reference, it favours the reference's usual target level. Nothing about either scheme is assumed.
+    Rows are Laplace-smoothed and scaled so the most likely depth gets 1.
+    """
+    max_c = max(cats.depth, default=1)
+    max_k = max(concepts.depth, default=1)
+    counts = np.ones((max_c + 1, max_k + 1))
+    counts[:, 0] = 0
+    firsts = [(rk.text[0], ci, rk.concepts[0]) for ci, rk in enumerate(ranked) if rk.concepts]
+    if not firsts:
+        return np.zeros_like(counts)
+    firsts.sort(reverse=True)
+    for _, ci, j in firsts[: max(1, int(len(firsts) * sample))]:
+        counts[cats.depth[ci], concepts.depth[j]] += 1
+    counts[0, :] = 0
+    prob = counts / np.maximum(counts.sum(axis=1, keepdims=True), 1)
+    return prob / np.maximum(prob.max(axis=1, keepdims=True), 1e-12)

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import re
+
 import pandas as pd
 
 from pipeline.errors import NotFound
@@ -34,4 +36,15 @@ def rollup(store: Store, *, concept: str | None = None, depth: int = 1, referenc
                             aggfunc="sum", fill_value=0)
     wide.columns = [str(c) for c in wide.columns]
     wide["total"] = wide.sum(axis=1)  # items belong to exactly one source, so per-source counts add up
-    return wide.reset_index().sort_values(["depth", "concept_code"], kind="stable").reset_index(drop=True)
+    wide = wide.reset_index()
+    order = sorted(range(len(wide)), key=lambda i: (wide.at[i, "depth"], natural_key(wide.at[i, "concept_code"])))
+    return wide.iloc[order].reset_index(drop=True)
+
+
+def natural_key(code: str) -> list:
+    """Sort codes as people read them: HG.2 before HG.10.
+
+    >>> sorted(["HG.10", "HG.2", "HG.1"], key=natural_key)
+    ['HG.1', 'HG.2', 'HG.10']
+    """
+    return [(0, int(t), "") if t.isdigit() else (1, 0, t) for t in re.split(r"(\d+)", str(code)) if t]
