@@ -18,6 +18,47 @@ from pipeline.store import DEFAULT_STORE, open_store
 
 log = logging.getLogger("graftwork")
 
+# Command groups that live beside their library code. Each module defines
+# `register(sub, common) -> dict[str, handler]`, where handler(args, ctx) returns what to print;
+# the dict key is the top-level command name it handles (e.g. "review").
+EXTENSIONS = ("pipeline.review.commands", "pipeline.exchange.commands", "pipeline.query.commands",
+              "pipeline.jobs.commands", "pipeline.match.commands")
+
+
+class Context:
+    """What a command handler gets besides its arguments: store opening and the run ledger."""
+
+    def __init__(self, args):
+        self.args = args
+
+    def open(self, *, read_only: bool = False):
+        return _open(self.args, read_only=read_only)
+
+    def write_job(self, job: str, work):
+        """Run work(store, run_id) on a writable store, recorded in the run ledger; returns its result."""
+        from pipeline.jobs.ledger import ledger
+
+        with self.open() as store:
+            params = {k: v for k, v in vars(self.args).items() if k not in ("store", "neo4j", "json", "verbose")}
+            with ledger(store, job, params) as run:
+                run["counts"] = work(store, run["run_id"])
+                return run["counts"]
+
+
+def _load_extensions(sub, common) -> dict:
+    import importlib
+
+    handlers = {}
+    for name in EXTENSIONS:
+        try:
+            module = importlib.import_module(name)
+        except ModuleNotFoundError as exc:
+            if exc.name == name:  # that group is not installed in this build; anything else is a real error
+                continue
+            raise
+        handlers.update(module.register(sub, common))
+    return handlers
+
 
 def _global_options(parser: argparse.ArgumentParser, *, suppress: bool) -> None:
     d = argparse.SUPPRESS if suppress else None
@@ -31,6 +72,10 @@ def _global_options(parser: argparse.ArgumentParser, *, suppress: bool) -> None:
 
 
 def build_parser() -> argparse.ArgumentParser:
+    return _build()[0]
+
+
+def _build():
     common = argparse.ArgumentParser(add_help=False)
     _global_options(common, suppress=True)
     p = argparse.ArgumentParser(prog="graftwork", description="Keep a scored crosswalk from source taxonomies "
@@ -91,24 +136,6 @@ def build_parser() -> argparse.ArgumentParser:
     pl.add_argument("--source", action="append", metavar="KEY")
     pl.add_argument("--reference", metavar="KEY")
 
-    q = sub.add_parser("query", help="ask the combined data", parents=[common])
-    qsub = q.add_subparsers(dest="query", required=True, metavar="QUERY")
-    ru = qsub.add_parser("rollup", help="items per reference concept (with descendants), by source",
-                         parents=[common])
-    ru.add_argument("--concept", metavar="CODE", help="start at this concept (default: the top level)")
-    ru.add_argument("--depth", type=int, default=1, help="levels to show (below --concept, if given)")
-    ru.add_argument("--reference", metavar="KEY")
-    ru.add_argument("--csv", metavar="FILE", help="also write the table as CSV")
-    ru.add_argument("--include-proposed", action="store_true", help="count items placed through proposed edges")
-
-    ex = sub.add_parser("export", help="write the crosswalk out", parents=[common])
-    xsub = ex.add_subparsers(dest="what", required=True, metavar="WHAT")
-    xm = xsub.add_parser("mappings", help="MAPS_TO edges", parents=[common])
-    xm.add_argument("out")
-    xm.add_argument("--format", default="csv", dest="fmt")
-    xm.add_argument("--candidates", type=int, default=1, help="ranks per category (default 1)")
-    xm.add_argument("--source", action="append", metavar="KEY")
-
     sub.add_parser("status", help="what is in the store, and the last runs", parents=[common])
 
     demo = sub.add_parser("demo", help="build the invented demo scenario end to end", parents=[common])
@@ -116,15 +143,18 @@ def build_parser() -> argparse.ArgumentParser:
     demo.add_argument("--items", type=int, default=30_000, help="items to generate (default 30000)")
     demo.add_argument("--seed", type=int, default=7)
     demo.add_argument("--embedder", default="static", choices=["static", "lexical", "transformer"])
-    return p
+    handlers = _load_extensions(sub, common)
+    return p, handlers
 
 
 def main(argv: list[str] | None = None) -> int:
-    args = build_parser().parse_args(argv)
+    parser, handlers = _build()
+    args = parser.parse_args(argv)
     logging.basicConfig(level=logging.WARNING - 10 * min(2, args.verbose or 0),
                         format="%(levelname)s %(name)s: %(message)s")
     try:
-        result = _dispatch(args)
+        handler = handlers.get(args.command)
+        result = handler(args, Context(args)) if handler else _dispatch(args)
     except GraftworkError as exc:
         print(f"graftwork: {exc}", file=sys.stderr)
         return exc.exit_code
@@ -159,21 +189,6 @@ def _dispatch(args):
 
         with _open(args, read_only=True) as store:
             return store_status(store)
-    if cmd == "query":
-        from pipeline.query.rollup import LIVE, rollup
-
-        with _open(args, read_only=True) as store:
-            statuses = LIVE + (("proposed",) if args.include_proposed else ())
-            df = rollup(store, concept=args.concept, depth=args.depth, reference=args.reference, statuses=statuses)
-        if args.csv:
-            df.to_csv(args.csv, index=False)
-        return df
-    if cmd == "export":
-        from pipeline.exchange.exporters import export_mappings
-
-        with _open(args, read_only=True) as store:
-            return export_mappings(store, args.out, fmt=args.fmt, candidates=args.candidates, sources=args.source)
-
     with _open(args) as store:
         params = {k: v for k, v in vars(args).items() if k not in ("store", "neo4j", "json", "verbose")}
         with ledger(store, f"{cmd} {getattr(args, 'what', '')}".strip(), params) as run:
