@@ -129,8 +129,13 @@ def _build():
     mp.add_argument("--source", action="append", metavar="KEY", help="only this source (repeatable)")
     mp.add_argument("--reference", metavar="KEY")
     mp.add_argument("--candidates", type=int, default=5, help="edges kept per category (default 5)")
-    mp.add_argument("--auto-threshold", type=float, default=None, help="rank-1 score that makes an edge auto")
+    mp.add_argument("--auto-threshold", type=float, default=None,
+                    help="rank-1 probability that makes an edge auto (default: learned or 0.80)")
+    mp.add_argument("--without", action="append", default=[], metavar="FEATURE",
+                    help="switch a feature off (text, lexical, members, parent, depth, instance)")
     mp.add_argument("--floor", type=float, default=None, help="no edge below this score")
+    mp.add_argument("--multi-margin", type=float, default=0.0,
+                    help="allow several auto edges per category (1:n) when within this probability of the best")
 
     pl = sub.add_parser("place", help="place items on concepts through the live edges", parents=[common])
     pl.add_argument("--source", action="append", metavar="KEY")
@@ -226,7 +231,8 @@ def _write_command(store, args, run_id: str):
     if cmd == "map":
         from pipeline.match.map_job import MapSettings, map_sources
 
-        settings = MapSettings(candidates=args.candidates)
+        settings = MapSettings(candidates=args.candidates, disabled=frozenset(args.without),
+                               multi_margin=args.multi_margin)
         if args.auto_threshold is not None:
             settings.auto_threshold = args.auto_threshold
         if args.floor is not None:

@@ -5,15 +5,26 @@ import struct
 
 import numpy as np
 import pytest
-
-from pipeline.embed.bert_numpy import BertConfig, BertEncoder, gelu, layer_norm, mean_pool, read_safetensors, write_safetensors
-from pipeline.errors import BadInput
 from test_embed_distill import make_teacher
+
+from pipeline.embed.bert_numpy import (
+    BertConfig,
+    BertEncoder,
+    gelu,
+    layer_norm,
+    mean_pool,
+    read_safetensors,
+    write_safetensors,
+)
+from pipeline.errors import BadInput
 
 
 def test_safetensors_round_trip(tmp_path):
-    tensors = {"a": np.arange(6, dtype=np.float32).reshape(2, 3), "b": np.array([7, 8], dtype=np.int64),
-               "c": np.ones((1, 2), dtype=np.float16)}
+    tensors = {
+        "a": np.arange(6, dtype=np.float32).reshape(2, 3),
+        "b": np.array([7, 8], dtype=np.int64),
+        "c": np.ones((1, 2), dtype=np.float16),
+    }
     write_safetensors(tmp_path / "m.safetensors", tensors)
     back = read_safetensors(tmp_path / "m.safetensors")
     assert sorted(back) == ["a", "b", "c"]
@@ -31,15 +42,20 @@ def test_safetensors_header_layout(tmp_path):
 
 
 def test_safetensors_metadata_entry_is_skipped(tmp_path):
-    header = json.dumps({"__metadata__": {"format": "pt"}, "x": {"dtype": "F32", "shape": [1],
-                                                                  "data_offsets": [0, 4]}}).encode()
+    header = json.dumps(
+        {"__metadata__": {"format": "pt"}, "x": {"dtype": "F32", "shape": [1], "data_offsets": [0, 4]}}
+    ).encode()
     (tmp_path / "m.safetensors").write_bytes(struct.pack("<Q", len(header)) + header + struct.pack("<f", 2.5))
     assert read_safetensors(tmp_path / "m.safetensors")["x"].tolist() == [2.5]
 
 
 def test_safetensors_bad_offsets_and_dtype_are_reported_together(tmp_path):
-    header = json.dumps({"x": {"dtype": "F32", "shape": [4], "data_offsets": [0, 4]},
-                         "y": {"dtype": "Q9", "shape": [1], "data_offsets": [0, 4]}}).encode()
+    header = json.dumps(
+        {
+            "x": {"dtype": "F32", "shape": [4], "data_offsets": [0, 4]},
+            "y": {"dtype": "Q9", "shape": [1], "data_offsets": [0, 4]},
+        }
+    ).encode()
     (tmp_path / "m.safetensors").write_bytes(struct.pack("<Q", len(header)) + header + b"\0" * 4)
     with pytest.raises(BadInput) as err:
         read_safetensors(tmp_path / "m.safetensors")
@@ -95,7 +111,8 @@ def test_reproduces_published_minilm_similarities():
 
     # source: sentence-transformers documentation, index page "Usage" example for all-MiniLM-L6-v2:
     # similarities tensor([[1.0000, 0.6660, 0.1046], [0.6660, 1.0000, 0.1411], [0.1046, 0.1411, 1.0000]])
-    v = TransformerEmbedder().encode(["The weather is lovely today.", "It's so sunny outside!",
-                                      "He drove to the stadium."])
+    v = TransformerEmbedder().encode(
+        ["The weather is lovely today.", "It's so sunny outside!", "He drove to the stadium."]
+    )
     sims = v @ v.T
     assert np.allclose(sims, [[1.0, 0.6660, 0.1046], [0.6660, 1.0, 0.1411], [0.1046, 0.1411, 1.0]], atol=5e-4)

@@ -10,35 +10,68 @@ from pipeline.embed.bert_numpy import write_safetensors
 from pipeline.embed.static import StaticEmbedder
 from pipeline.errors import BadInput
 
-WORDS = ["[PAD]", "[UNK]", "[CLS]", "[SEP]", "[MASK]", "[unused0]", "the", "sofa", "couch", "lamp", "hose",
-         "garden", "##s", "red", "blue", "rug"]
+WORDS = [
+    "[PAD]",
+    "[UNK]",
+    "[CLS]",
+    "[SEP]",
+    "[MASK]",
+    "[unused0]",
+    "the",
+    "sofa",
+    "couch",
+    "lamp",
+    "hose",
+    "garden",
+    "##s",
+    "red",
+    "blue",
+    "rug",
+]
 
 
 def make_teacher(folder, hidden=8, heads=2, layers=1, inter=16, words=WORDS, seed=0):
-    """A tiny BERT (random weights) with a WordPiece tokenizer: enough to run the whole build in milliseconds."""
+    """A tiny BERT (random weights) with a WordPiece tokenizer: enough to run the whole build in ms."""
     from tokenizers import Tokenizer, normalizers, pre_tokenizers
     from tokenizers.models import WordPiece
 
     folder.mkdir(parents=True, exist_ok=True)
     rng = np.random.default_rng(seed)
-    w = {"embeddings.word_embeddings.weight": rng.normal(size=(len(words), hidden)),
-         "embeddings.position_embeddings.weight": rng.normal(size=(16, hidden)),
-         "embeddings.token_type_embeddings.weight": rng.normal(size=(2, hidden)),
-         "embeddings.LayerNorm.weight": np.ones(hidden), "embeddings.LayerNorm.bias": np.zeros(hidden)}
+    w = {
+        "embeddings.word_embeddings.weight": rng.normal(size=(len(words), hidden)),
+        "embeddings.position_embeddings.weight": rng.normal(size=(16, hidden)),
+        "embeddings.token_type_embeddings.weight": rng.normal(size=(2, hidden)),
+        "embeddings.LayerNorm.weight": np.ones(hidden),
+        "embeddings.LayerNorm.bias": np.zeros(hidden),
+    }
     for i in range(layers):
         p = f"encoder.layer.{i}."
-        for name, shape in [("attention.self.query", (hidden, hidden)), ("attention.self.key", (hidden, hidden)),
-                            ("attention.self.value", (hidden, hidden)), ("attention.output.dense", (hidden, hidden)),
-                            ("intermediate.dense", (inter, hidden)), ("output.dense", (hidden, inter))]:
+        for name, shape in [
+            ("attention.self.query", (hidden, hidden)),
+            ("attention.self.key", (hidden, hidden)),
+            ("attention.self.value", (hidden, hidden)),
+            ("attention.output.dense", (hidden, hidden)),
+            ("intermediate.dense", (inter, hidden)),
+            ("output.dense", (hidden, inter)),
+        ]:
             w[p + name + ".weight"] = rng.normal(size=shape) * 0.3
             w[p + name + ".bias"] = rng.normal(size=shape[0]) * 0.1
         for ln in ("attention.output.LayerNorm", "output.LayerNorm"):
             w[p + ln + ".weight"] = np.ones(hidden)
             w[p + ln + ".bias"] = np.zeros(hidden)
     write_safetensors(folder / "model.safetensors", {k: v.astype(np.float32) for k, v in w.items()})
-    (folder / "config.json").write_text(json.dumps({
-        "hidden_size": hidden, "num_attention_heads": heads, "num_hidden_layers": layers,
-        "intermediate_size": inter, "max_position_embeddings": 16, "hidden_act": "gelu"}))
+    (folder / "config.json").write_text(
+        json.dumps(
+            {
+                "hidden_size": hidden,
+                "num_attention_heads": heads,
+                "num_hidden_layers": layers,
+                "intermediate_size": inter,
+                "max_position_embeddings": 16,
+                "hidden_act": "gelu",
+            }
+        )
+    )
     tok = Tokenizer(WordPiece({t: i for i, t in enumerate(words)}, unk_token="[UNK]"))
     tok.normalizer = normalizers.BertNormalizer(lowercase=True)
     tok.pre_tokenizer = pre_tokenizers.BertPreTokenizer()
@@ -50,12 +83,18 @@ def test_build_writes_table_tokenizer_config_and_notice(tmp_path):
     teacher = make_teacher(tmp_path / "teacher")
     config = distill.build(tmp_path / "out" / "tiny", teacher, dim=4)
     out = tmp_path / "out" / "tiny"
-    assert sorted(p.name for p in out.iterdir()) == ["NOTICE.md", "config.json", "tokenizer.json", "vectors.npy"]
+    assert sorted(p.name for p in out.iterdir()) == [
+        "NOTICE.md",
+        "config.json",
+        "tokenizer.json",
+        "vectors.npy",
+    ]
     table = np.load(out / "vectors.npy")
     assert table.shape == (len(WORDS), 4) and table.dtype == np.float16
     assert config["dim"] == 4 and config["rows"] == len(WORDS)
-    assert "python -m pipeline.embed.distill --out pipeline/embed/models/tiny" in (out / "NOTICE.md").read_text()
-    assert "Apache" in (out / "NOTICE.md").read_text()
+    notice = (out / "NOTICE.md").read_text()
+    assert "python -m pipeline.embed.distill --out pipeline/embed/models/tiny" in notice
+    assert "Apache" in notice
 
 
 def test_special_tokens_get_zero_rows(tmp_path):
@@ -84,7 +123,8 @@ def test_built_model_loads_as_static_embedder(tmp_path):
 def test_rebuild_with_other_teacher_changes_embedder_id(tmp_path):
     distill.build(tmp_path / "a" / "m", make_teacher(tmp_path / "t1", seed=1), dim=4)
     distill.build(tmp_path / "b" / "m", make_teacher(tmp_path / "t2", seed=2), dim=4)
-    assert StaticEmbedder(tmp_path / "a" / "m").embedder_id != StaticEmbedder(tmp_path / "b" / "m").embedder_id
+    first, second = StaticEmbedder(tmp_path / "a" / "m"), StaticEmbedder(tmp_path / "b" / "m")
+    assert first.embedder_id != second.embedder_id
 
 
 def test_build_replaces_existing_folder_whole(tmp_path):
@@ -121,7 +161,8 @@ def test_sif_weights_grow_with_rank():
 
 
 def test_cli_main_builds_and_reports(tmp_path, capsys):
-    code = distill.main(["--out", str(tmp_path / "m"), "--teacher", str(make_teacher(tmp_path / "t")), "--dim", "4"])
+    teacher = make_teacher(tmp_path / "t")
+    code = distill.main(["--out", str(tmp_path / "m"), "--teacher", str(teacher), "--dim", "4"])
     printed = capsys.readouterr().out
     assert '"dim": 4' in printed and "cos('sofa', 'couch')" in printed
     assert code in (0, 1)  # random teacher: the synonym checks may fail, the build must not

@@ -7,8 +7,20 @@ from pipeline.embed.base import Embedder, EmbedderUnavailable
 from pipeline.embed.lexical import LexicalEmbedder
 from pipeline.errors import BadInput
 
-CORPUS = ["garden hose", "garden hose reel", "expanding hose", "table lamp", "desk lamp", "floor lamp",
-          "oak table", "dining table", "wool rug", "runner rug", "cordless drill", "hammer drill"]
+CORPUS = [
+    "garden hose",
+    "garden hose reel",
+    "expanding hose",
+    "table lamp",
+    "desk lamp",
+    "floor lamp",
+    "oak table",
+    "dining table",
+    "wool rug",
+    "runner rug",
+    "cordless drill",
+    "hammer drill",
+]
 
 
 @pytest.fixture(scope="module")

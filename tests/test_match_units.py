@@ -2,12 +2,14 @@
 
 import numpy as np
 import pandas as pd
+import pytest
 
 from pipeline.match.candidates import stack_signals, top_k
 from pipeline.match.hierarchy_view import HierarchyView
 from pipeline.match.match_type import match_type
 from pipeline.match.normalise import normalise_label
-from pipeline.match.rank import RankSettings, rerank
+from pipeline.match.decide import Evidence, decide, learn_depth_prior
+from pipeline.match.features import FEATURES, ScoringModel
 
 
 def test_top_k_matches_a_full_sort_in_every_block():
@@ -39,41 +41,60 @@ CONCEPTS = _view([
     ("c", "C", "Mixed farming", 3, True, "g"),
     ("x", "X", "Fishing", 1, True, None),
 ])
+TEXT_ONLY = ScoringModel(weights={"text": 10.0}, bias=-5.0)
+
+
+def _evidence(text_rows):
+    """Evidence whose fused text score of category i with concept j is text_rows[i][j] (one-hot trick)."""
+    t = np.array(text_rows, dtype=np.float32)
+    return Evidence(pools=[list(range(t.shape[1]))] * t.shape[0], q_text=t, r_text=np.eye(t.shape[1], dtype=np.float32))
 
 
 def test_repeated_title_goes_to_the_deeper_concept_for_a_leaf_category():
     cats = _view([("s1", "1", "Mixed farming", 1, True, None)])
-    ranked = rerank(cats, CONCEPTS, np.array([[1, 2, 3]]), np.array([[0.90, 0.89, 0.2]], np.float32))
+    ranked = decide(cats, CONCEPTS, _evidence([[0.2, 0.90, 0.89, 0.1]]), TEXT_ONLY)
     assert ranked[0].concepts[0] == 2  # "c", the leaf
 
 
 def test_repeated_title_stays_on_the_inner_concept_for_an_inner_category():
     cats = _view([("s1", "1", "Mixed farming", 1, False, None), ("s2", "2", "Mixed farming", 2, True, "s1")])
-    ranked = rerank(cats, CONCEPTS, np.array([[2, 1, 3], [1, 2, 3]]),
-                    np.array([[0.90, 0.89, 0.2], [0.90, 0.89, 0.2]], np.float32))
+    ranked = decide(cats, CONCEPTS, _evidence([[0.2, 0.89, 0.90, 0.1], [0.2, 0.90, 0.89, 0.1]]), TEXT_ONLY)
     assert ranked[0].concepts[0] == 1  # inner category -> inner concept "g"
     assert ranked[1].concepts[0] == 2  # its leaf child -> leaf concept "c"
 
 
 def test_a_clear_winner_is_not_overridden_by_the_repeated_title_rule():
     cats = _view([("s1", "1", "Mixed farming", 1, True, None)])
-    ranked = rerank(cats, CONCEPTS, np.array([[1, 2]]), np.array([[0.95, 0.80]], np.float32))
+    ranked = decide(cats, CONCEPTS, _evidence([[0.2, 0.95, 0.80, 0.1]]), TEXT_ONLY)
     assert ranked[0].concepts[0] == 1
 
 
-def test_parent_choice_gives_a_bonus_to_candidates_under_it():
+def test_the_parent_choice_favours_candidates_in_its_region():
     cats = _view([("p", "P", "Farming", 1, False, None), ("k", "K", "Fish and farms", 2, True, "p")])
-    idx = np.array([[0, 3], [3, 2]])
-    sc = np.array([[0.9, 0.1], [0.50, 0.48]], np.float32)
-    ranked = rerank(cats, CONCEPTS, idx, sc, settings=RankSettings(parent_bonus=0.05, tie_margin=0.0))
-    assert ranked[1].concepts[0] == 2  # "c" sits under "r", the parent's choice: 0.48 + 0.05 beats 0.50
-    assert ranked[1].bonus[0] == 0.05
+    model = ScoringModel(weights={"text": 10.0, "parent": 1.0}, bias=-5.0)
+    ranked = decide(cats, CONCEPTS, _evidence([[0.9, 0.1, 0.1, 0.1], [0.1, 0.1, 0.48, 0.50]]), model)
+    assert ranked[1].concepts[0] == 2  # "c" sits under "r", the parent's choice: 4.8 + 1 beats 5.0
+    assert ranked[1].features[0][FEATURES.index("parent")] == 1.0
 
 
 def test_rejected_concepts_are_never_candidates():
     cats = _view([("s1", "1", "Fishing", 1, True, None)])
-    ranked = rerank(cats, CONCEPTS, np.array([[3, 0]]), np.array([[0.99, 0.1]], np.float32), excluded={0: {3}})
+    ranked = decide(cats, CONCEPTS, _evidence([[0.1, 0.1, 0.1, 0.99]]), TEXT_ONLY, excluded={0: {3}})
     assert 3 not in ranked[0].concepts
+
+
+def test_probabilities_follow_the_logistic_model():
+    cats = _view([("s1", "1", "Fishing", 1, True, None)])
+    ranked = decide(cats, CONCEPTS, _evidence([[0.1, 0.2, 0.3, 0.5]]), TEXT_ONLY)
+    assert ranked[0].probs[0] == pytest.approx(0.5)  # 10 * 0.5 - 5 = 0
+
+
+def test_depth_prior_prefers_the_depth_confident_choices_show():
+    cats = _view([("a", "A", "x", 1, True, None), ("b", "B", "y", 1, True, None), ("c", "C", "z", 1, True, None)])
+    ranked = decide(cats, CONCEPTS, _evidence([[0.1, 0.95, 0.1, 0.1], [0.1, 0.9, 0.1, 0.1], [0.1, 0.1, 0.2, 0.1]]),
+                    TEXT_ONLY)
+    prior = learn_depth_prior(cats, CONCEPTS, ranked, sample=0.67)
+    assert prior[1, 2] == 1.0 and prior[1, 3] < prior[1, 2]
 
 
 def test_ancestors_of_a_multi_parent_node():

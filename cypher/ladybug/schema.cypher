@@ -22,3 +22,8 @@ CREATE REL TABLE IF NOT EXISTS FILED_UNDER(FROM Item TO Category);
 CREATE REL TABLE IF NOT EXISTS MAPS_TO(FROM Category TO Concept, score DOUBLE, rank INT64, match_type STRING,
     status STRING, method STRING, evidence STRING, run_id STRING, decided_by STRING, decided_at STRING, note STRING);
 CREATE REL TABLE IF NOT EXISTS PLACED_IN(FROM Item TO Concept, via STRING, score DOUBLE, status STRING);
+// EdgeEvent: the append-only history of every MAPS_TO edge (proposed by a run, decided by a person, withdrawn,
+// reopened); never updated or deleted (pipeline/review/events.py). Edges are named by their two end uids.
+CREATE NODE TABLE IF NOT EXISTS EdgeEvent(id STRING, seq INT64, at STRING, action STRING, source STRING,
+    category STRING, concept STRING, status STRING, status_before STRING, score DOUBLE, rank INT64, run_id STRING,
+    actor STRING, note STRING, concept_hash STRING, ref STRING, PRIMARY KEY(id));

@@ -1,7 +1,8 @@
 """The embedder interface every stage codes against, plus the small helpers the embedders share.
 
 An embedder turns texts into float32 rows of unit length (an all-zero row for a text with no usable tokens).
-Its `embedder_id` changes whenever the vectors it would produce change, so stored vectors can be reused safely.
+Its `embedder_id` changes whenever the vectors it would produce change, so stored vectors can be
+reused safely.
 
     >>> import numpy as np
     >>> l2_normalise(np.array([[3.0, 4.0], [0.0, 0.0]], dtype=np.float32)).tolist()
@@ -41,8 +42,11 @@ def check_texts(texts: Sequence[str], *, source: str = "texts") -> list[str]:
     if isinstance(texts, str):
         raise BadInput(Problem("expected a sequence of texts, got one str", field=source))
     texts = list(texts)
-    problems = [Problem(f"expected str, got {type(t).__name__}", field=f"{source}[{i}]")
-                for i, t in enumerate(texts) if not isinstance(t, str)]
+    problems = [
+        Problem(f"expected str, got {type(t).__name__}", field=f"{source}[{i}]")
+        for i, t in enumerate(texts)
+        if not isinstance(t, str)
+    ]
     if problems:
         raise BadInput(problems)
     return texts

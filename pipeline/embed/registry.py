@@ -1,9 +1,9 @@
-"""Pick an embedder by name: "static" (default, shipped model), "lexical" (TF-IDF/LSA), "transformer" (optional).
+"""Pick an embedder by name: "static" (default, shipped), "lexical" (TF-IDF/LSA), "transformer" (optional).
 
-    >>> get_embedder().dim
-    256
-    >>> get_embedder("lexical", dim=64).embedder_id      # must be fitted (or loaded with path=...) before use
-    'lexical:unfitted'
+>>> get_embedder().dim
+256
+>>> get_embedder("lexical", dim=64).embedder_id      # must be fitted (or loaded with path=...) before use
+'lexical:unfitted'
 """
 
 from __future__ import annotations
@@ -51,5 +51,8 @@ def get_embedder(name: str = "static", **options) -> Embedder:
 
 def _reject_unknown(name: str, options: dict) -> None:
     if options:
-        raise BadInput(Problem(f"unknown option(s) for embedder {name!r}: {', '.join(sorted(options))}",
-                               field="embedder"))
+        raise BadInput(
+            Problem(
+                f"unknown option(s) for embedder {name!r}: {', '.join(sorted(options))}", field="embedder"
+            )
+        )

@@ -20,14 +20,21 @@ from pathlib import Path
 import numpy as np
 from scipy.sparse import csr_matrix
 
-from pipeline.embed.base import EmbedderUnavailable, batches, check_batch_size, check_texts, hash_files, l2_normalise
+from pipeline.embed.base import (
+    EmbedderUnavailable,
+    batches,
+    check_batch_size,
+    check_texts,
+    hash_files,
+    l2_normalise,
+)
 
 MODELS_DIR = Path(__file__).resolve().parent / "models"
 DEFAULT_MODEL = "minilm-static-256"
 
 
 class StaticEmbedder:
-    """Token-table embedder; `model_dir` holds vectors.npy, tokenizer.json and config.json (see distill.py)."""
+    """Token-table embedder; `model_dir` holds vectors.npy, tokenizer.json, config.json (see distill.py)."""
 
     def __init__(self, model_dir: str | Path | None = None):
         from tokenizers import Tokenizer
@@ -36,8 +43,10 @@ class StaticEmbedder:
         files = [self.model_dir / n for n in ("vectors.npy", "tokenizer.json", "config.json")]
         missing = [str(f) for f in files if not f.is_file()]
         if missing:
-            raise EmbedderUnavailable(f"static model files missing: {', '.join(missing)} "
-                                      f"(rebuild with: python -m pipeline.embed.distill --out {self.model_dir})")
+            raise EmbedderUnavailable(
+                f"static model files missing: {', '.join(missing)} "
+                f"(rebuild with: python -m pipeline.embed.distill --out {self.model_dir})"
+            )
         self.config = json.loads(files[2].read_text())
         # float32 in memory: the gather+sum is faster and exact enough; the file stays float16
         self.table = np.load(files[0], allow_pickle=False).astype(np.float32)
@@ -65,7 +74,8 @@ class StaticEmbedder:
             flat = np.fromiter(itertools.chain.from_iterable(ids), dtype=np.int64, count=int(indptr[-1]))
             # (texts x vocab) count matrix times the table sums each text's rows; repeated ids add up, and
             # empty texts stay zero. Much faster than np.add.reduceat over the gathered rows.
-            counts = csr_matrix((np.ones(len(flat), dtype=np.float32), flat, indptr),
-                                shape=(len(ids), len(self.table)))
+            counts = csr_matrix(
+                (np.ones(len(flat), dtype=np.float32), flat, indptr), shape=(len(ids), len(self.table))
+            )
             out[sl] = counts @ self.table
         return l2_normalise(out)

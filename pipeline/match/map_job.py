@@ -1,7 +1,11 @@
-"""Job: map every live category of each source onto the reference, writing scored MAPS_TO edges.
+"""Job: map the live categories of each source onto the reference, writing scored MAPS_TO edges.
 
 Decided edges (accepted / rejected) are never touched: a rejected concept is never proposed again for that
 category, and a category with an accepted edge gets no machine edges at all.
+
+Steps: text candidates by blocked matrix products (plus member-title candidates), fused evidence per candidate
+(`features.py`), a logistic score (default weights, or a model learned with `learn.py`), parents first, then a
+second pass with the depth-agreement prior learned from the first pass's most confident choices.
 """
 
 from __future__ import annotations
@@ -9,16 +13,17 @@ from __future__ import annotations
 import json
 import logging
 from collections import defaultdict
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 import pandas as pd
 
 from pipeline.errors import BadInput, NotFound, Problem
 from pipeline.match.candidates import stack_signals, top_k
+from pipeline.match.decide import Evidence, Ranked, decide, learn_depth_prior
+from pipeline.match.features import FEATURES, ScoringModel
 from pipeline.match.hierarchy_view import HierarchyView
 from pipeline.match.match_type import match_type
-from pipeline.match.rank import RankSettings, learn_depth_prior, rerank
 from pipeline.store import Store
 
 log = logging.getLogger(__name__)
@@ -26,22 +31,32 @@ log = logging.getLogger(__name__)
 # (category signal, concept signal, weight): path carries context, label the node's own words, gloss the
 # concept's alt labels and definition.
 DEFAULT_SIGNALS = (("path", "path", 0.5), ("label", "label", 0.3), ("label", "gloss", 0.2))
+MODEL_KEY = "scoring_model"
 
 
 @dataclass
 class MapSettings:
-    candidates: int = 5          # edges written per category (rank 1..k)
-    auto_threshold: float = 0.80  # rank-1 score at or above this -> status auto
-    floor: float = 0.30          # candidates below this get no edge
-    pool: int = 25               # text candidates re-ranked by the hierarchy rules
-    parent_bonus: float = 0.05
-    tie_margin: float = 0.02
-    depth_weight: float = 0.10
+    candidates: int = 5            # edges written per category (rank 1..k)
+    auto_threshold: float | None = None  # rank-1 probability that makes an edge auto (None: stored or 0.80)
+    floor: float = 0.01            # candidates below this probability get no edge
+    pool: int = 25                 # text candidates scored per category
+    member_pool: int = 10          # extra candidates from member item titles
+    tie_margin: float = 0.02       # text-score margin for the repeated-title rule
+    multi_margin: float = 0.0      # > 0 allows 1:n: a second auto edge this close to the first (off by default)
+    depth_sample: float = 0.5      # share of first-pass choices the depth prior is learned from
+    disabled: frozenset[str] = field(default_factory=frozenset)  # features switched off (ablation)
 
 
 def map_sources(store: Store, *, sources: list[str] | None = None, reference: str | None = None,
-                settings: MapSettings | None = None, run_id: str = "") -> dict:
+                settings: MapSettings | None = None, run_id: str = "",
+                only: dict[str, list[str]] | None = None) -> dict:
+    """Map `sources` (default all). `only`: source -> category uids to re-map alone (incremental runs); the
+    other categories keep their edges and serve as parent context."""
     settings = settings or MapSettings()
+    unknown_features = set(settings.disabled) - set(FEATURES)
+    if unknown_features:
+        raise BadInput(Problem(f"unknown feature(s) {sorted(unknown_features)}; known: {', '.join(FEATURES)}",
+                               field="--without"))
     schemes = store.rows("schemes_list")
     reference = _pick_reference(schemes, reference)
     all_sources = [s["key"] for s in schemes if s["role"] == "source"]
@@ -52,11 +67,32 @@ def map_sources(store: Store, *, sources: list[str] | None = None, reference: st
     targets = sources or all_sources
     if not targets:
         raise NotFound("no source taxonomies in the store; ingest one with `graftwork ingest source`")
+    model = load_model(store)
+    threshold = settings.auto_threshold
+    if threshold is None:
+        stored = store.scalar("meta_get", key="auto_threshold")
+        threshold = float(stored) if stored else 0.80
     concept_side = _load_side(store, "Concept", reference)
-    summary = {"reference": reference, "sources": {}}
+    summary = {"reference": reference, "model": model.source, "auto_threshold": threshold, "sources": {}}
+    plans = {}
     for key in targets:
-        summary["sources"][key] = _map_one(store, key, reference, concept_side, settings, run_id)
+        subset = None if only is None else only.get(key, [])
+        if subset is not None and not subset:
+            continue
+        plans[key] = _plan(store, key, reference, concept_side, settings, model, subset)
+    # Instance evidence: where the same item keys landed in the other sources, from this run's own first
+    # choices (or the stored edges of sources not being re-mapped), so the result never depends on an earlier run.
+    if "instance" not in settings.disabled and len(plans) and len(all_sources) > 1:
+        tops = {u: con for plan in plans.values() for u, con in plan.first_choice().items()}
+        _add_instance_votes(store, plans, tops, reference)
+    for key, plan in plans.items():
+        summary["sources"][key] = _write(store, plan, settings, model, threshold, run_id)
     return summary
+
+
+def load_model(store: Store) -> ScoringModel:
+    stored = store.scalar("meta_get", key=MODEL_KEY)
+    return ScoringModel.from_json(json.loads(stored)) if stored else ScoringModel()
 
 
 def _pick_reference(schemes: list[dict], reference: str | None) -> str:
@@ -90,19 +126,143 @@ def _load_side(store: Store, kind: str, scheme: str):
     return view, mats, embedders
 
 
-def _map_one(store: Store, source: str, reference: str, concept_side, settings: MapSettings, run_id: str) -> dict:
+@dataclass
+class _Plan:
+    source: str
+    reference: str
+    cats: HierarchyView
+    concepts: HierarchyView
+    ev: Evidence
+    fixed: dict
+    excluded: dict
+    context: dict
+    todo: list
+    prior: np.ndarray | None
+    first: list | None = None
+
+    def first_choice(self) -> dict[str, str]:
+        out = {self.cats.uids[ci]: self.concepts.uids[j] for ci, j in self.context.items()}
+        for ci in self.todo:
+            rk = self.first[ci] if self.first else None
+            if ci in self.fixed:
+                out[self.cats.uids[ci]] = self.concepts.uids[self.fixed[ci]]
+            elif rk is not None and rk.concepts:
+                out[self.cats.uids[ci]] = self.concepts.uids[rk.concepts[0]]
+        return out
+
+
+def _plan(store: Store, source: str, reference: str, concept_side, settings: MapSettings, model: ScoringModel,
+          subset: list[str] | None) -> _Plan:
     concepts, cmats, c_emb = concept_side
     cats, qmats, q_emb = _load_side(store, "Category", source)
-    if not cats.uids:
-        return {"categories": 0, "auto": 0, "proposed": 0, "unmapped": 0}
-    if c_emb != q_emb or len(c_emb) != 1:
+    if cats.uids and (c_emb != q_emb or len(c_emb) != 1):
         raise NotFound(f"vectors of {source!r} and {reference!r} come from different embedders "
                        f"({sorted(c_emb | q_emb)}); run `graftwork embed` again")
-    q, r = stack_signals([(qmats[a], cmats[b], w) for a, b, w in DEFAULT_SIGNALS])
-    idx, sc = top_k(q, r, settings.pool)  # fused score = sum of weight x cosine (weights sum to 1)
-
-    cpos = {u: i for i, u in enumerate(concepts.uids)}
     kpos = {u: i for i, u in enumerate(cats.uids)}
+    cpos = {u: i for i, u in enumerate(concepts.uids)}
+    todo = list(range(len(cats.uids))) if subset is None else sorted(kpos[u] for u in subset if u in kpos)
+    ev, fixed, excluded = _evidence_for(store, source, reference, cats, concepts, qmats, cmats, settings, todo,
+                                        kpos, cpos)
+    context = dict(fixed)
+    if subset is not None:
+        # Incremental: the categories not re-mapped keep their current choice as parent context.
+        live = store.frame("live_top_edges", source=source, reference=reference)
+        todo_set = set(todo)
+        for cat, con in zip(live.get("category", []), live.get("concept", [])):
+            if cat in kpos and con in cpos and kpos[cat] not in todo_set:
+                context.setdefault(kpos[cat], cpos[con])
+    plan = _Plan(source, reference, cats, concepts, ev, fixed, excluded, context, todo, None)
+    prior_key = f"depth_prior:{source}"
+    if subset is None:
+        first = decide(cats, concepts, ev, model, disabled=settings.disabled, excluded=excluded, fixed_top=context,
+                       tie_margin=settings.tie_margin, only=todo)
+        if "depth" not in settings.disabled and cats.uids:
+            plan.prior = learn_depth_prior(cats, concepts, first, sample=settings.depth_sample)
+            store.run("meta_set", key=prior_key, value=json.dumps(plan.prior.round(6).tolist()))
+    else:
+        stored = store.scalar("meta_get", key=prior_key)
+        plan.prior = _fit_prior(np.array(json.loads(stored)), cats, concepts) if stored else None
+    if cats.uids:
+        plan.first = decide(cats, concepts, ev, model, disabled=settings.disabled, depth_prior=plan.prior,
+                            excluded=excluded, fixed_top=context, tie_margin=settings.tie_margin, only=todo)
+    return plan
+
+
+def _add_instance_votes(store: Store, plans: dict[str, _Plan], tops: dict[str, str], reference: str) -> None:
+    pairs = store.frame("shared_category_pairs")
+    if pairs.empty:
+        return
+    if any(u not in tops for u in pairs["other"]):
+        # Categories of sources not in this run: their stored live edges.
+        for s in {u.split(":", 1)[0] for u in pairs["other"] if u not in tops}:
+            live = store.frame("live_top_edges", source=s, reference=reference)
+            for cat, con in zip(live.get("category", []), live.get("concept", [])):
+                tops.setdefault(cat, con)
+    for plan in plans.values():
+        kpos = {u: i for i, u in enumerate(plan.cats.uids)}
+        cpos = {u: i for i, u in enumerate(plan.concepts.uids)}
+        mine = pairs[pairs["category"].isin(kpos)]
+        votes: dict[int, dict[int, float]] = defaultdict(dict)
+        for cat, group in mine.groupby("category"):
+            tally: dict[int, float] = defaultdict(float)
+            for other, n in zip(group["other"], group["items"]):
+                if other in tops and tops[other] in cpos:
+                    tally[cpos[tops[other]]] += float(n)
+            total = sum(tally.values())
+            if total:
+                votes[kpos[cat]] = {j: n / total for j, n in tally.items()}
+                for j in tally:
+                    if j not in plan.ev.pools[kpos[cat]]:
+                        plan.ev.pools[kpos[cat]].append(j)
+        plan.ev.votes = votes or None
+
+
+def _write(store: Store, plan: _Plan, settings: MapSettings, model: ScoringModel, threshold: float,
+           run_id: str) -> dict:
+    cats, concepts = plan.cats, plan.concepts
+    if not cats.uids:
+        return {"categories": 0, "auto": 0, "proposed": 0, "unmapped": 0, "decided": 0}
+    ranked = plan.first
+    if plan.ev.votes:
+        ranked = decide(cats, concepts, plan.ev, model, disabled=settings.disabled, depth_prior=plan.prior,
+                        excluded=plan.excluded, fixed_top=plan.context, tie_margin=settings.tie_margin,
+                        only=plan.todo)
+    rows, counts = _edge_rows(cats, concepts, ranked, plan.todo, plan.fixed, settings, threshold, model, run_id)
+    with store.transaction():
+        store.run("machine_edges_clear", uids=[cats.uids[ci] for ci in plan.todo], reference=plan.reference)
+        if rows:
+            store.bulk("machine_edges_create", pd.DataFrame(rows))
+    counts["categories"] = len(plan.todo)
+    log.info("mapped %s: %s", plan.source, counts)
+    return counts
+
+
+def _fit_prior(prior: np.ndarray, cats: HierarchyView, concepts: HierarchyView) -> np.ndarray:
+    """A stored prior padded to today's depths (new deeper levels get the neutral value)."""
+    need = (max(cats.depth, default=1) + 1, max(concepts.depth, default=1) + 1)
+    out = np.full((max(need[0], prior.shape[0]), max(need[1], prior.shape[1])), 0.5)
+    out[: prior.shape[0], : prior.shape[1]] = prior
+    return out
+
+
+def _evidence_for(store, source, reference, cats, concepts, qmats, cmats, settings, todo, kpos, cpos):
+    q, r = stack_signals([(qmats[a], cmats[b], w) for a, b, w in DEFAULT_SIGNALS])
+    pools: list[list[int]] = [[] for _ in cats.uids]
+    if todo:
+        idx, _ = top_k(q[todo], r, settings.pool)
+        for row, ci in enumerate(todo):
+            pools[ci] = [int(j) for j in idx[row]]
+    members = store.get_vectors("Category", "members", owners=cats.uids)
+    mem_matrix = None
+    if len(members) and "members" not in settings.disabled:
+        mem_matrix = np.zeros((len(cats.uids), members.matrix.shape[1]), dtype=np.float32)
+        for owner, vec in zip(members.owners, members.matrix):
+            mem_matrix[kpos[owner]] = vec
+        with_members = [ci for ci in todo if np.any(mem_matrix[ci])]
+        if with_members and settings.member_pool > 0:
+            midx, _ = top_k(mem_matrix[with_members], cmats["gloss"], settings.member_pool)
+            for row, ci in enumerate(with_members):
+                pools[ci] = list(dict.fromkeys(pools[ci] + [int(j) for j in midx[row]]))
     decided = store.frame("decided_edges", source=source, reference=reference)
     excluded: dict[int, set[int]] = defaultdict(set)
     fixed: dict[int, int] = {}
@@ -112,62 +272,54 @@ def _map_one(store: Store, source: str, reference: str, concept_side, settings: 
                 excluded[kpos[cat]].add(cpos[con])
             else:
                 fixed[kpos[cat]] = cpos[con]
-    rank_settings = RankSettings(parent_bonus=settings.parent_bonus, tie_margin=settings.tie_margin,
-                                 depth_weight=settings.depth_weight)
-    ranked = rerank(cats, concepts, idx, sc, excluded=excluded, fixed_top=fixed, settings=rank_settings)
-    if settings.depth_weight > 0:
-        # Second pass: the depth agreement the confident first-pass choices show, applied to every category.
-        prior = learn_depth_prior(cats, concepts, ranked, sample=rank_settings.depth_sample)
-        ranked = rerank(cats, concepts, idx, sc, excluded=excluded, fixed_top=fixed, settings=rank_settings,
-                        depth_prior=prior)
+    ev = Evidence(pools=pools, q_text=q, r_text=r, members=mem_matrix, concept_gloss=cmats["gloss"])
+    return ev, fixed, excluded
 
-    top = {ci: (fixed.get(ci) if ci in fixed else (rk.concepts[0] if rk.concepts else None))
-           for ci, rk in enumerate(ranked)}
+
+def _edge_rows(cats, concepts, ranked: list[Ranked], todo, fixed, settings, threshold, model, run_id):
+    anc = concepts.ancestors()
+    top = {ci: fixed.get(ci, ranked[ci].concepts[0] if ranked[ci] and ranked[ci].concepts else None)
+           for ci in todo}
     family_top: dict[tuple[int, int], int] = defaultdict(int)  # (parent, concept) -> children landing there
-    for ci in range(len(cats.uids)):
+    for ci, j in top.items():
         for p in cats.parents[ci]:
-            if top[ci] is not None:
-                family_top[(p, top[ci])] += 1
-
-    rows, counts = [], {"categories": len(cats.uids), "auto": 0, "proposed": 0, "unmapped": 0, "decided": len(fixed)}
-    for ci, rk in enumerate(ranked):
+            if j is not None:
+                family_top[(p, j)] += 1
+    rows = []
+    counts = {"auto": 0, "proposed": 0, "unmapped": 0, "decided": 0, "multi": 0}
+    for ci in todo:
         if ci in fixed:
+            counts["decided"] += 1
             continue
-        kept = [(j, s, t, b) for j, s, t, b in zip(rk.concepts, rk.scores, rk.text, rk.bonus) if s >= settings.floor]
+        rk = ranked[ci]
+        kept = [(j, p, f) for j, p, f in zip(rk.concepts, rk.probs, rk.features) if p >= settings.floor]
         kept = kept[: settings.candidates]
         if not kept:
             counts["unmapped"] += 1
             continue
-        for rank, (j, s, t, b) in enumerate(kept, start=1):
-            score = float(min(1.0, max(0.0, s)))
-            status = "auto" if rank == 1 and score >= settings.auto_threshold else "proposed"
-            if rank == 1:
-                counts[status] += 1
-            shared = any(p == j for p in (top.get(pp) for pp in cats.parents[ci])) or any(
-                family_top[(p, j)] > 1 for p in cats.parents[ci]
-            )
+        statuses = ["auto" if kept[0][1] >= threshold else "proposed"] + ["proposed"] * (len(kept) - 1)
+        if statuses[0] == "auto" and settings.multi_margin > 0:
+            # 1:n: another concept in a different branch, nearly as likely and itself above the threshold.
+            for n, (j, p, _) in enumerate(kept[1:], start=1):
+                jb = kept[0][0]
+                if p >= threshold and p >= kept[0][1] - settings.multi_margin and j not in anc[jb] and jb not in anc[j]:
+                    statuses[n] = "auto"
+        split = statuses.count("auto") > 1
+        counts[statuses[0]] += 1
+        counts["multi"] += split
+        for rank, ((j, p, f), status) in enumerate(zip(kept, statuses), start=1):
+            shared = any(p_ == j for p_ in (top.get(pp) for pp in cats.parents[ci])) or any(
+                family_top[(pp, j)] > 1 for pp in cats.parents[ci])
             rows.append({
                 "category": cats.uids[ci],
                 "concept": concepts.uids[j],
-                "score": score,
+                "score": round(float(p), 6),
                 "rank": rank,
                 "match_type": match_type(cats.labels[ci], [concepts.labels[j], *concepts.alt_labels[j]],
-                                         shared_with_family=shared, split=False),
+                                         shared_with_family=shared, split=split and status == "auto"),
                 "status": status,
-                "method": "text+structure",
-                "evidence": _evidence(qmats, cmats, ci, j, t, b),
+                "method": f"fused:{model.source}",
+                "evidence": json.dumps({name: round(float(v), 4) for name, v in zip(FEATURES, f)}, sort_keys=True),
                 "run_id": run_id,
             })
-    with store.transaction():
-        store.run("machine_edges_clear", uids=cats.uids, reference=reference)
-        if rows:
-            store.bulk("machine_edges_create", pd.DataFrame(rows))
-    log.info("mapped %s: %s", source, counts)
-    return counts
-
-
-def _evidence(qmats, cmats, ci: int, j: int, text: float, bonus: float) -> str:
-    """Per-signal cosines behind one edge, so a steward sees why it was proposed."""
-    ev = {f"{a}~{b}": round(float(qmats[a][ci] @ cmats[b][j]), 4) for a, b, _ in DEFAULT_SIGNALS}
-    ev.update(text=round(text, 4), parent_bonus=round(bonus, 4))
-    return json.dumps(ev, sort_keys=True)
+    return rows, counts

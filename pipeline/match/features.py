@@ -1,0 +1,58 @@
+"""Evidence for one (category, candidate concept) pair, each a named feature in 0..1.
+
+- text: fused cosine of path, label and gloss vectors (`candidates.stack_signals`);
+- lexical: word and character-trigram overlap of the labels after normalisation (best over alt labels);
+- members: cosine of the mean vector of the category's member item titles with the concept's gloss vector
+  (the text score stands in when a category has no items, so it neither helps nor hurts);
+- parent: 1 when the candidate is at or under the concept chosen for the category's parent, 0 when not,
+  0.5 when the category has no mapped parent;
+- depth: how usual the candidate's depth is for categories at this depth (learned per run, `rank.learn_depth_prior`);
+  0.5 until learned;
+- instance: share of the category's shared items (same item key in another source) placed on this concept there.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+FEATURES = ("text", "lexical", "members", "parent", "depth", "instance")
+NEUTRAL = {"parent": 0.5, "depth": 0.5, "instance": 0.0}
+
+# Default logistic weights, used until a model is learned from labelled edges (`map --learn`). Set by reasoning,
+# not fitted: text dominates; each other feature can move a close call but not overturn a clear text winner.
+DEFAULT_WEIGHTS = {"text": 12.0, "lexical": 2.0, "members": 3.0, "parent": 1.0, "depth": 1.5, "instance": 2.0}
+DEFAULT_BIAS = -12.0
+
+
+@dataclass
+class ScoringModel:
+    weights: dict[str, float] = field(default_factory=lambda: dict(DEFAULT_WEIGHTS))
+    bias: float = DEFAULT_BIAS
+    source: str = "default"  # "default", or what it was learned from
+
+    def logit(self, feats: np.ndarray, disabled: frozenset[str] = frozenset()) -> np.ndarray:
+        """`feats`: (n, len(FEATURES)) in FEATURES order; a disabled feature contributes as if neutral."""
+        w = np.array([0.0 if f in disabled else self.weights.get(f, 0.0) for f in FEATURES])
+        base = self.bias + sum(self.weights.get(f, 0.0) * _neutral_value(f, feats) for f in disabled if f in FEATURES)
+        return feats @ w + base
+
+    def probability(self, feats: np.ndarray, disabled: frozenset[str] = frozenset()) -> np.ndarray:
+        return 1.0 / (1.0 + np.exp(-self.logit(feats, disabled)))
+
+    def to_json(self) -> dict:
+        return {"weights": self.weights, "bias": self.bias, "source": self.source}
+
+    @classmethod
+    def from_json(cls, data: dict) -> "ScoringModel":
+        return cls(weights={k: float(v) for k, v in data["weights"].items()}, bias=float(data["bias"]),
+                   source=data.get("source", "learned"))
+
+
+def _neutral_value(name: str, feats: np.ndarray):
+    if name in NEUTRAL:
+        return NEUTRAL[name]
+    if name in ("members", "lexical"):
+        return feats[:, FEATURES.index("text")]  # switched off = as if it agreed with the text evidence
+    return 0.0
