@@ -24,6 +24,7 @@ import io
 import json
 import os
 import random
+import re
 import shutil
 import sys
 import tempfile
@@ -46,7 +47,11 @@ TARGETS = {
                            "learn_gain": 0.10},
     "nace2-to-isic4": {"top1": 0.97},
 }
-SHOWN = ("top1", "hit@5", "mrr", "coverage", "auto_coverage", "auto_precision", "auto_recall", "auto_f1", "partial")
+SHOWN = ("top1", "hit@5", "mrr", "coverage", "auto_coverage", "auto_precision", "auto_rank1_precision", "auto_f1",
+         "partial")
+
+HEAD = {"auto_coverage": "auto cov", "auto_precision": "auto P", "auto_rank1_precision": "auto P rk1",
+        "auto_f1": "auto F1"}
 
 
 def tree_to_skos(tree_csv: Path, out: Path, base: str) -> Path:
@@ -114,8 +119,15 @@ def write_key(rows: list[dict], path: Path) -> Path:
     return path
 
 
-def evaluate(store: Path, key: Path, out: Path, *extra: str) -> tuple[dict, float]:
-    _, seconds = graftwork(store, "evaluate", "--answer-key", str(key), "--source", "source", "--out", str(out),
+def scheme_keys(folder: Path) -> tuple[str, str]:
+    """(source key, reference key) from a folder named `<source>-to-<reference>`, else generic names."""
+    parts = folder.name.split("-to-")
+    ok = len(parts) == 2 and all(re.fullmatch(r"[A-Za-z0-9][A-Za-z0-9_.-]*", p) for p in parts)
+    return (parts[0], parts[1]) if ok and parts[0] != parts[1] else ("source", "reference")
+
+
+def evaluate(store: Path, key: Path, out: Path, source: str, *extra: str) -> tuple[dict, float]:
+    _, seconds = graftwork(store, "evaluate", "--answer-key", str(key), "--source", source, "--out", str(out),
                            *extra)
     return json.loads((out / "report.json").read_text(encoding="utf-8")), seconds
 
@@ -127,22 +139,24 @@ def run_table(folder: Path, work: Path, *, embedder: str, ablation: bool, learn_
     work.mkdir(parents=True)
     store = work / "bench.lbug"
     times = {}
-    ttl = tree_to_skos(folder / "reference_tree.csv", work / "reference.ttl", "http://example.org/reference/")
-    _, times["ingest_reference"] = graftwork(store, "ingest", "reference", str(ttl), "--scheme", "reference")
-    _, times["ingest_source"] = graftwork(store, "ingest", "source", "source", str(folder / "source_tree.csv"))
+    source, reference = scheme_keys(folder)
+    ttl = tree_to_skos(folder / "reference_tree.csv", work / "reference.ttl", f"http://example.org/{reference}/")
+    _, times["ingest_reference"] = graftwork(store, "ingest", "reference", str(ttl), "--scheme", reference)
+    _, times["ingest_source"] = graftwork(store, "ingest", "source", source, str(folder / "source_tree.csv"))
     _, times["embed"] = graftwork(store, "embed", "--embedder", embedder)
     mapped, times["map"] = graftwork(store, "map")
     key = folder / "correspondence.csv"
-    report, times["evaluate"] = evaluate(store, key, work / "report", *(["--ablation"] if ablation else []))
+    report, times["evaluate"] = evaluate(store, key, work / "report", source,
+                                         *(["--ablation"] if ablation else []))
     result = {"table": folder.name, "work": str(work), "map": mapped, "metrics": report["metrics"],
               "best_at_precision_target": report["precision_coverage"]["best_at_target"],
               "ece": report["reliability"]["ece"], "ablation": report["ablation"], "seconds": times}
     if learn_fraction:
-        result["learn"] = run_learn(store, key, work, learn_fraction, seed, times)
+        result["learn"] = run_learn(store, key, work, source, learn_fraction, seed, times)
     return result
 
 
-def run_learn(store: Path, key: Path, work: Path, fraction: float, seed: int, times: dict) -> dict:
+def run_learn(store: Path, key: Path, work: Path, source: str, fraction: float, seed: int, times: dict) -> dict:
     option = map_learn_option()
     if option is None:
         return {"skipped": "this build's `graftwork map` has no --learn FILE option"}
@@ -150,9 +164,9 @@ def run_learn(store: Path, key: Path, work: Path, fraction: float, seed: int, ti
         rows = list(csv.DictReader(fh))
     learn_rows, held_rows = split_key(rows, fraction, seed)
     learn_csv, held_csv = write_key(learn_rows, work / "learn.csv"), write_key(held_rows, work / "held_out.csv")
-    before, _ = evaluate(store, held_csv, work / "held_out_unsupervised")
-    _, times["map_learn"] = graftwork(store, "map", option, str(learn_csv))
-    after, _ = evaluate(store, held_csv, work / "held_out_learned")
+    before, _ = evaluate(store, held_csv, work / "held_out_unsupervised", source)
+    _, times["map_learn"] = graftwork(store, "map", "--source", source, option, str(learn_csv))
+    after, _ = evaluate(store, held_csv, work / "held_out_learned", source)
     b, a = before["metrics"], after["metrics"]
     return {"fraction": fraction, "seed": seed, "learned_codes": len({r["source_code"] for r in learn_rows}),
             "held_out_codes": a["scored"], "unsupervised": b, "learned": a, "learn_gain": a["top1"] - b["top1"]}
@@ -176,9 +190,9 @@ def print_report(results: list[dict]) -> None:
     def f(v):
         return "-" if v is None else f"{v:.3f}" if isinstance(v, float) else str(v)
 
-    print(f"\n{'table':<22}" + "".join(f"{m:>15}" for m in SHOWN))
+    print(f"\n{'table':<22}" + "".join(f"{HEAD.get(m, m):>12}" for m in SHOWN))
     for r in results:
-        print(f"{r['table']:<22}" + "".join(f"{f(r['metrics'].get(m)):>15}" for m in SHOWN))
+        print(f"{r['table']:<22}" + "".join(f"{f(r['metrics'].get(m)):>12}" for m in SHOWN))
     print(f"\n{'table':<22}{'metric':<16}{'measured':>10}{'target':>10}  met")
     for r in results:
         for t in check_targets(r):

@@ -134,6 +134,11 @@ def _build():
     mp.add_argument("--without", action="append", default=[], metavar="FEATURE",
                     help="switch a feature off (text, lexical, members, parent, depth, instance)")
     mp.add_argument("--floor", type=float, default=None, help="no edge below this score")
+    mp.add_argument("--learn", metavar="ANSWER_KEY",
+                    help="fit the scoring model on an answer key CSV (or 'decisions': the stewards' decisions) first")
+    mp.add_argument("--target-precision", type=float, metavar="P",
+                    help="with --learn: pick the auto threshold that reaches this precision on the labels")
+    mp.add_argument("--forget-model", action="store_true", help="go back to the default weights and threshold")
     mp.add_argument("--multi-margin", type=float, default=0.0,
                     help="allow several auto edges per category (1:n) when within this probability of the best")
 
@@ -187,7 +192,7 @@ def _dispatch(args):
         from pipeline.jobs.demo import run_demo
 
         summary = run_demo(args.store or DEFAULT_STORE, data_dir=args.data, n_items=args.items, seed=args.seed,
-                           embedder=args.embedder, out=None if args.json else sys.stdout)
+                           embedder=args.embedder, out=None if args.json else sys.stdout, neo4j=args.neo4j)
         return summary if args.json else None  # the human report was printed as the demo went
     if cmd == "status":
         from pipeline.jobs.status import store_status
@@ -237,7 +242,22 @@ def _write_command(store, args, run_id: str):
             settings.auto_threshold = args.auto_threshold
         if args.floor is not None:
             settings.floor = args.floor
-        return map_sources(store, sources=args.source, reference=args.reference, settings=settings, run_id=run_id)
+        from pipeline.match import learn
+
+        report = {}
+        if args.forget_model:
+            learn.forget_model(store)
+        if args.learn:
+            labels = (learn.labels_from_decisions(store, args.source or [s["key"] for s in store.rows("schemes_list")
+                                                                          if s["role"] == "source"], args.reference)
+                      if args.learn == "decisions" else
+                      learn.labels_from_answer_key(args.learn, source=(args.source or [None])[0]))
+            report["learned"] = learn.learn_model(store, labels, reference=args.reference,
+                                                  target_precision=args.target_precision,
+                                                  origin="decisions" if args.learn == "decisions" else Path(args.learn).name)
+        report.update(map_sources(store, sources=args.source, reference=args.reference, settings=settings,
+                                  run_id=run_id))
+        return report
     if cmd == "place":
         from pipeline.place.place_job import place
 

@@ -22,7 +22,7 @@ def demo_layer(tmp_path_factory) -> tuple[Path, str, object]:
         tmp = tmp_path_factory.mktemp("layer")
         files = generate_scenario(tmp / "data", seed=5, n_items=N_ITEMS)
         store = str(tmp / "layer.lbug")
-        run = lambda *a: main(["--store", store, *a])  # noqa: E731
+        run = lambda *a: main(["--store", store, *a])
         assert run("ingest", "reference", str(files.reference), "--scheme", "market") == 0
         for src in files.sources:
             cols, opts = src["columns"], ["--format", src["format"]]
@@ -68,7 +68,7 @@ def tiny_layer(tmp_path: Path, *, with_crosswalk: bool = True) -> str:
     for name, text in TINY.items():
         (tmp_path / name).write_text(text, encoding="utf-8")
     store = str(tmp_path / "tiny.lbug")
-    run = lambda *a: main(["--store", store, *a])  # noqa: E731
+    run = lambda *a: main(["--store", store, *a])
     assert run("ingest", "reference", str(tmp_path / "ref.csv"), "--format", "tree", "--scheme", "ref") == 0
     assert run("ingest", "source", "shop", str(tmp_path / "shop.csv")) == 0
     assert run("ingest", "source", "mart", str(tmp_path / "mart.csv"), "--format", "tags") == 0

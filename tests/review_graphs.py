@@ -29,7 +29,8 @@ KC,Cookware,K
 PA,Pans,KC
 KN,Knives,K
 """
-SHOP = "code,label,parent_code\n1,Garden,\n2,Pruning shears,1\n3,Mowers,1\n4,Kitchen,\n5,Frying pans,4\n6,Oddments,\n7,Knife sets,1\n"
+SHOP = ("code,label,parent_code\n1,Garden,\n2,Pruning shears,1\n3,Mowers,1\n4,Kitchen,\n5,Frying pans,4\n"
+        "6,Oddments,\n7,Knife sets,1\n")
 MART = "code,label,parent_code\n1,Outdoor,\n2,Cutters,1\n"
 SHOP_ITEMS = [("p1", "Bypass pruner 20 cm", "2"), ("p2", "Anvil pruner", "2"), ("p3", "Ratchet pruner", "2"),
               ("p4", "Pruner holster", "2"), ("m1", "Push mower", "3"), ("m2", "Reel mower", "3"),
@@ -82,4 +83,4 @@ def write_machine_edges(store, edges, run_id: str) -> None:
 def edges_of(store, category: str) -> dict[str, str]:
     """concept code -> status of one category's edges."""
     df = store.frame("review_category_edges", category=category, reference="ref")
-    return dict(zip(df["concept_code"], df["status"]))
+    return dict(zip(df["concept_code"], df["status"], strict=True))

@@ -1,7 +1,8 @@
 """The whole spine through the CLI on a small generated demo scenario, cross-checked with plain pandas.
 
 The scenario is invented (pipeline/demo); the cross-check recomputes the rollup from the input files and the
-exported crosswalk without the graph, so a placement or rollup bug shows up as a difference.
+exported crosswalk without the graph, so a placement or rollup bug shows up as a difference. Runs on both engines
+(`module_engine` in conftest.py; the Neo4j half is marked neo4j).
 """
 
 import json
@@ -14,11 +15,11 @@ from pipeline.demo.scenario import generate_scenario
 
 
 @pytest.fixture(scope="module")
-def built(tmp_path_factory):
+def built(tmp_path_factory, module_engine):
     tmp = tmp_path_factory.mktemp("e2e")
     files = generate_scenario(tmp / "data", seed=11, n_items=3000)
-    store = str(tmp / "e2e.lbug")
-    run = lambda *a: main(["--store", store, *a])  # noqa: E731
+    store = module_engine.cli  # global options naming the store: --store PATH or --neo4j URI
+    run = lambda *a: main([*store, *a])  # noqa: E731
     assert run("ingest", "reference", str(files.reference), "--scheme", "market") == 0
     for src in files.sources:
         cols = src["columns"]
@@ -38,7 +39,7 @@ def built(tmp_path_factory):
 def test_rollup_matches_a_pandas_recomputation(built, capsys):
     tmp, store, files = built
     out = tmp / "map.csv"
-    assert main(["--store", store, "export", "mappings", "--candidates", "1", str(out)]) == 0
+    assert main([*store, "export", "mappings", "--candidates", "1", str(out)]) == 0
     edges = pd.read_csv(out, dtype=str)
     live = edges[edges.status.isin(["auto", "accepted"])]
     concept_of = {(r.source_scheme, r.source_code): r.concept_code for r in live.itertuples()}
@@ -61,7 +62,7 @@ def test_rollup_matches_a_pandas_recomputation(built, capsys):
                     expected.setdefault((top_of[concept], src["key"]), set()).add(key)
 
     capsys.readouterr()
-    assert main(["--store", store, "--json", "query", "rollup", "--depth", "1"]) == 0
+    assert main([*store, "--json", "query", "rollup", "--depth", "1"]) == 0
     got = pd.DataFrame(json.loads(capsys.readouterr().out))
     sources = [s["key"] for s in files.sources]
     got_pairs = {(r["concept_code"], s): int(r[s]) for r in got.to_dict("records") for s in sources if r.get(s)}
@@ -72,18 +73,18 @@ def test_rollup_matches_a_pandas_recomputation(built, capsys):
 def test_rerunning_map_and_place_changes_nothing(built, capsys):
     tmp, store, _ = built
     first, second = tmp / "a.csv", tmp / "b.csv"
-    assert main(["--store", store, "export", "mappings", "--candidates", "5", str(first)]) == 0
-    assert main(["--store", store, "embed"]) == 0
-    assert main(["--store", store, "map"]) == 0
-    assert main(["--store", store, "place"]) == 0
-    assert main(["--store", store, "export", "mappings", "--candidates", "5", str(second)]) == 0
+    assert main([*store, "export", "mappings", "--candidates", "5", str(first)]) == 0
+    assert main([*store, "embed"]) == 0
+    assert main([*store, "map"]) == 0
+    assert main([*store, "place"]) == 0
+    assert main([*store, "export", "mappings", "--candidates", "5", str(second)]) == 0
     assert first.read_text() == second.read_text()
 
 
 def test_status_reports_counts_and_runs(built, capsys):
     _, store, files = built
     capsys.readouterr()
-    assert main(["--store", store, "--json", "status"]) == 0
+    assert main([*store, "--json", "status"]) == 0
     status = json.loads(capsys.readouterr().out)
     kinds = {(n["kind"], n["scheme"]) for n in status["nodes"]}
     assert ("Concept", "market") in kinds
@@ -92,13 +93,12 @@ def test_status_reports_counts_and_runs(built, capsys):
     assert all(r["status"] == "ok" for r in status["runs"])
 
 
-def test_demo_answer_key_is_mostly_recovered(built):
+def test_demo_answer_key_is_mostly_recovered(built, module_engine):
     from pipeline.match.evaluate import evaluate
-    from pipeline.store import open_store
 
     _, store, files = built
     key = pd.read_csv(files.answer_key, dtype=str)
-    with open_store(store, read_only=True) as s:
+    with module_engine.open(read_only=True) as s:
         for src in files.sources:
             part = key[key.source_key == src["key"]]
             gold: dict[str, set[str]] = {}

@@ -131,4 +131,5 @@ def test_ablation_plan_repeats_the_last_map_runs_settings(mapped, monkeypatch):
     assert [set(c.disabled) for c in calls] == [{f} for f in features] + [set(), {features[-1]}]
     assert all(c.auto_threshold == 0.7 for c in calls)
     assert result["settings"]["disabled"] == [features[-1]]
+    monkeypatch.undo()
     assert main(["--store", store, "map"]) == 0  # leave the module's store as the other tests expect

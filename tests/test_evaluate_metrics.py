@@ -69,6 +69,7 @@ def test_auto_precision_recall_f1_over_pairs():
     assert m["auto_recall"] == 2 / 4
     assert m["auto_f1"] == pytest.approx(2 * (2 / 3) * 0.5 / (2 / 3 + 0.5))
     assert m["auto_coverage"] == 2 / 3
+    assert m["auto_rank1_precision"] == 1.0  # both rank-1 auto edges are right; the 1:n extra is not counted
 
 
 def test_no_auto_edges_leaves_precision_undefined_not_zero():
@@ -170,3 +171,20 @@ def test_read_answer_key_missing_column(tmp_path):
     f.write_text("source,reference_code\n1,A\n")
     with pytest.raises(BadInput, match="source_code"):
         read_answer_key(f)
+
+
+def test_benchmark_split_keeps_a_codes_rows_together():
+    import importlib.util
+    from pathlib import Path
+
+    spec = importlib.util.spec_from_file_location("bench_oracles",
+                                                  Path(__file__).parent.parent / "benchmarks" / "oracles.py")
+    bench = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(bench)
+    rows = [{"source_code": str(i // 2), "reference_code": f"R{i}"} for i in range(20)]  # 10 codes, 2 rows each
+    learn, held = bench.split_key(rows, 0.2, seed=1)
+    assert len({r["source_code"] for r in learn}) == 2 and len(learn) == 4
+    assert not {r["source_code"] for r in learn} & {r["source_code"] for r in held}
+    assert bench.split_key(rows, 0.2, seed=1) == (learn, held)  # seeded
+    assert bench.scheme_keys(Path("a1-to-b2")) == ("a1", "b2")
+    assert bench.scheme_keys(Path("odd name")) == ("source", "reference")

@@ -4,8 +4,8 @@ import json
 
 import pandas as pd
 import pytest
-
 from demo_layer import tiny_layer
+
 from pipeline.cli import main
 from pipeline.exchange.coverage_view import export_coverage
 from pipeline.exchange.items_export import export_items, items_frame

@@ -3,10 +3,10 @@
 import pandas as pd
 import pytest
 import yaml
+from demo_layer import copy_store, demo_layer, tiny_layer
 from rdflib import Graph, URIRef
 from rdflib.namespace import SKOS
 
-from demo_layer import copy_store, demo_layer, tiny_layer
 from pipeline.errors import BadInput
 from pipeline.exchange.exporters import export_mappings
 from pipeline.exchange.importer import import_mappings
@@ -63,7 +63,7 @@ def test_turtle_export_parses_and_every_mapping_triple_is_skos(tmp_path_factory)
 
 
 def test_sssom_export_reimports_to_the_same_edges(tmp_path_factory, tmp_path):
-    tmp, store, _ = demo_layer(tmp_path_factory)
+    _, store, _ = demo_layer(tmp_path_factory)
     store = copy_store(store, tmp_path)
     first, second = tmp_path / "a.sssom.tsv", tmp_path / "b.sssom.tsv"
     key = ["subject_id", "predicate_id", "object_id"]

@@ -1,15 +1,14 @@
 """Writing hierarchies: only changes are written, vanished nodes are retired, moved nodes get new parent links."""
 
 from pipeline.ingest.graph_writer import write_hierarchy
-from pipeline.store import open_store
 
 
 def _rows(labels):
     return [{"code": c, "label": lab, "path": lab, "depth": 1, "is_leaf": True} for c, lab in labels]
 
 
-def test_rewrite_counts_and_retirement(tmp_path):
-    with open_store(tmp_path / "s.lbug") as s:
+def test_rewrite_counts_and_retirement(engine):
+    with engine.open() as s:
         d = write_hierarchy(s, "Category", "src", _rows([("a", "A"), ("b", "B")]), {"b": ["a"]})
         assert d.counts() == {"added": 2, "changed": 0, "unchanged": 0, "retired": 0, "revived": 0}
         d = write_hierarchy(s, "Category", "src", _rows([("a", "A"), ("b", "B")]), {"b": ["a"]})
@@ -22,8 +21,8 @@ def test_rewrite_counts_and_retirement(tmp_path):
         assert d.revived == ["src:b"]
 
 
-def test_a_moved_node_gets_only_its_new_parent(tmp_path):
-    with open_store(tmp_path / "s.lbug") as s:
+def test_a_moved_node_gets_only_its_new_parent(engine):
+    with engine.open() as s:
         rows = _rows([("a", "A"), ("b", "B"), ("c", "C")])
         write_hierarchy(s, "Category", "src", rows, {"c": ["a"]})
         write_hierarchy(s, "Category", "src", rows, {"c": ["b"]})

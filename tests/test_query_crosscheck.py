@@ -4,10 +4,10 @@ aggregation bug in the graph queries shows up as a difference."""
 
 import pandas as pd
 import pytest
+from demo_layer import demo_layer
 from rdflib import Graph
 from rdflib.namespace import SKOS
 
-from demo_layer import demo_layer
 from pipeline.cli import main
 from pipeline.query.coverage import coverage
 from pipeline.query.drilldown import drilldown

@@ -1,8 +1,8 @@
 """The analyst queries on a hand-made layer (tests/demo_layer.py: TINY), with answers counted by hand."""
 
 import pytest
-
 from demo_layer import tiny_layer
+
 from pipeline.api import Layer
 from pipeline.errors import BadInput, NotFound
 from pipeline.query.filters import Filters, parse_attribute_filters
@@ -14,7 +14,7 @@ def layer(tmp_path_factory):
 
 
 def _counts(df, sources=("shop", "mart")):
-    return {(r["concept_code"], s): int(r[s]) for r in df.to_dict("records") for s in sources if s in r and r[s]}
+    return {(r["concept_code"], s): int(r[s]) for r in df.to_dict("records") for s in sources if r.get(s)}
 
 
 def test_rollup_two_levels_counts_descendants_per_source(layer):

@@ -1,4 +1,8 @@
-"""The embedded store: schema on first open, clear errors for foreign files and locks, vectors that round-trip."""
+"""Stores: schema on first open, clear errors for foreign files and locks, vectors that round-trip.
+
+Tests taking `engine` run on the embedded engine and (marked neo4j) on a Neo4j server; file and lock tests are
+about the embedded engine's single file and stay LadybugDB-only.
+"""
 
 import subprocess
 import sys
@@ -11,11 +15,10 @@ from pipeline.errors import NotAStore, StoreLocked
 from pipeline.store import open_store
 
 
-def test_schema_is_created_once_and_reopens(tmp_path):
-    path = tmp_path / "s.lbug"
-    with open_store(path) as s:
+def test_schema_is_created_once_and_reopens(engine):
+    with engine.open() as s:
         s.run("meta_set", key="probe", value="1")
-    with open_store(path) as s:  # a second open must not try to create the tables again
+    with engine.open() as s:  # a second open must not try to create the tables again
         assert s.scalar("meta_get", key="probe") == "1"
         assert s.scalar("meta_get", key="schema_version") == "1"
 
@@ -68,8 +71,8 @@ def test_a_second_writer_process_gets_store_locked(tmp_path):
     assert "LOCKED 3" in out.stdout, out.stderr
 
 
-def test_transaction_rolls_back_everything_on_error(tmp_path):
-    with open_store(tmp_path / "s.lbug") as s:
+def test_transaction_rolls_back_everything_on_error(engine):
+    with engine.open() as s:
         with pytest.raises(RuntimeError, match="boom"):
             with s.transaction():
                 s.run("meta_set", key="a", value="1")
@@ -77,10 +80,10 @@ def test_transaction_rolls_back_everything_on_error(tmp_path):
         assert s.scalar("meta_get", key="a") is None
 
 
-def test_vectors_round_trip_bit_exact_and_replace_only_their_owners(tmp_path):
+def test_vectors_round_trip_bit_exact_and_replace_only_their_owners(engine):
     rng = np.random.default_rng(0)
     m = rng.standard_normal((5, 16)).astype(np.float32)
-    with open_store(tmp_path / "s.lbug") as s:
+    with engine.open() as s:
         s.put_vectors("Concept", "path", "e1", list("abcde"), ["h"] * 5, m)
         s.put_vectors("Concept", "path", "e2", ["c"], ["h2"], np.ones((1, 16), np.float32))
         got = s.get_vectors("Concept", "path")
@@ -92,11 +95,11 @@ def test_vectors_round_trip_bit_exact_and_replace_only_their_owners(tmp_path):
         assert len(s.get_vectors("Concept", "label")) == 0
 
 
-def test_mostly_zero_vectors_survive_many_bulk_writes(tmp_path):
+def test_mostly_zero_vectors_survive_many_bulk_writes(engine):
     # Regression: ladybug 0.22 stored zeros for sparse vectors in a FLOAT[] column after a few COPYs
     # (found while building the store; vectors are now kept as float32 bytes).
     rng = np.random.default_rng(0)
-    with open_store(tmp_path / "s.lbug") as s:
+    with engine.open() as s:
         for i in range(8):
             m = np.zeros((3, 64), np.float32)
             m[np.arange(3), rng.integers(0, 64, 3)] = [1.0, 0.7, 0.5]
@@ -104,10 +107,34 @@ def test_mostly_zero_vectors_survive_many_bulk_writes(tmp_path):
             assert np.array_equal(s.get_vectors("Category", f"sig{i}").matrix, m)
 
 
-def test_bulk_upsert_is_idempotent(tmp_path):
+def test_bulk_upsert_is_idempotent(engine):
     rows = pd.DataFrame({"uid": ["s:1"], "source": ["s"], "item_key": ["1"], "title": ["t"], "attributes": ["{}"]})
-    with open_store(tmp_path / "s.lbug") as s:
+    with engine.open() as s:
         s.bulk("items_upsert", rows, now="2026-01-01")
         s.bulk("items_upsert", rows.assign(title="t2"), now="2026-01-02")
         nodes = s.frame("count_nodes")
     assert nodes[nodes.kind == "Item"]["n"].tolist() == [1]
+
+
+def test_nested_transactions_join_the_outer_one(engine):
+    with engine.open() as s:
+        with pytest.raises(RuntimeError, match="late"):
+            with s.transaction():
+                with s.transaction():
+                    s.run("meta_set", key="inner", value="1")
+                assert s.scalar("meta_get", key="inner") == "1"  # visible inside the open transaction
+                raise RuntimeError("late")
+        assert s.scalar("meta_get", key="inner") is None
+
+
+def test_a_bulk_write_larger_than_one_batch_lands_whole(engine):
+    n = 2_500
+    rows = pd.DataFrame({"uid": [f"s:{i}" for i in range(n)], "source": "s", "item_key": [str(i) for i in range(n)],
+                         "title": [f"t{i}" for i in range(n)], "attributes": "{}"})
+    with engine.open() as s:
+        if s.engine == "neo4j":
+            s.batch_rows = 1_000  # three UNWIND statements in one transaction
+        s.bulk("items_upsert", rows, now="2026-01-01")
+        nodes = s.frame("count_nodes")
+    assert nodes[nodes.kind == "Item"]["n"].tolist() == [n]
+

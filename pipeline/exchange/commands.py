@@ -80,7 +80,7 @@ def run_import(args, ctx):
     from pipeline.exchange.iris import parse_prefix_overrides
 
     prefixes = parse_prefix_overrides(args.prefix)
-    work = lambda store, run_id: import_mappings(  # noqa: E731
+    work = lambda store, run_id: import_mappings(
         store, args.file, fmt=args.fmt, by=args.by, note=args.note, source=args.source,
         reference=args.reference, prefixes=prefixes, run_id=run_id, dry_run=args.dry_run)
     if args.dry_run:

@@ -36,7 +36,7 @@ def export_coverage(store: Store, out: str | Path, *, fmt: str | None = None, re
     else:
         tmp.write_text(_html(table, totals), encoding="utf-8")
     tmp.replace(out)
-    return {"file": str(out), "format": fmt, "concepts": int(len(table)),
+    return {"file": str(out), "format": fmt, "concepts": len(table),
             "bar_items": int(table.to_numpy().sum()) if len(table) else 0}
 
 

@@ -17,7 +17,7 @@ import getpass
 import json
 import math
 import os
-from datetime import datetime, timezone
+from datetime import UTC, datetime
 from pathlib import Path
 
 from pipeline.errors import BadInput, NotFound, Problem
@@ -46,7 +46,7 @@ def import_mappings(store: Store, path: str | Path, *, fmt: str | None = None, b
     crosswalk = read_crosswalk(path, fmt=fmt, source=source)
     checked = _check(store, crosswalk, sources, reference, prefixes or {})
     decided_by = by or _current_user()
-    now = datetime.now(timezone.utc).isoformat(timespec="seconds")
+    now = datetime.now(UTC).isoformat(timespec="seconds")
     todo = [c for c in checked if c["decision"] != "skip"]
     cats = sorted({c["category"] for c in todo})
     existing = store.frame("import_edges_existing", uids=cats, reference=reference) if cats else None
@@ -223,5 +223,5 @@ def _current_user() -> str:
             return os.environ[var]
     try:
         return getpass.getuser()
-    except Exception:  # no passwd entry in some containers
+    except (OSError, KeyError):  # no passwd entry in some containers
         return "unknown"

@@ -78,7 +78,7 @@ class SchemeNamespaces:
     prefixes: dict[str, str] = field(default_factory=dict)  # prefix name -> namespace (no built-ins)
 
     @classmethod
-    def build(cls, schemes: dict[str, None], overrides: dict[str, str]) -> "SchemeNamespaces":
+    def build(cls, schemes: dict[str, None], overrides: dict[str, str]) -> SchemeNamespaces:
         """`schemes`: the scheme keys to mint for; `overrides`: `--prefix` values (unknown keys are refused)."""
         unknown = sorted(set(overrides) - set(schemes))
         if unknown:

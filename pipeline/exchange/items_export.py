@@ -42,8 +42,8 @@ def items_frame(store: Store, *, reference: str | None = None, sources: list[str
         code = r.concept_code if isinstance(r.concept_code, str) else ""
         chain = [*tree.ancestors(code), code] if code and code in tree else []
         rec = {"source": r.source, "item_key": r.item_key, "title": r.title,
-               "categories": filed.get(r.item_uid, ""), "via_category": code_of.get(r.via, "") if r.via else "",
-               "status": r.status or "", "score": float(r.score) if pd.notna(r.score) else None,
+               "categories": filed.get(r.item_uid, ""), "via_category": code_of.get(r.via, "") if isinstance(r.via, str) else "",
+               "status": r.status if isinstance(r.status, str) else "", "score": float(r.score) if pd.notna(r.score) else None,
                "concept_code": code, "concept_label": tree.label(code) if chain else "",
                "concept_depth": len(chain) or None,
                "concept_path": " > ".join(tree.label(c) for c in chain)}
@@ -74,6 +74,6 @@ def export_items(store: Store, out: str | Path, *, fmt: str | None = None, refer
         frame.to_csv(tmp, index=False)
     tmp.replace(out)
     placed = frame.loc[frame["concept_code"] != "", "item_key"] if len(frame) else []
-    return {"file": str(out), "format": fmt, "rows": int(len(frame)),
+    return {"file": str(out), "format": fmt, "rows": len(frame),
             "items": int(frame[["source", "item_key"]].drop_duplicates().shape[0]) if len(frame) else 0,
-            "placed_rows": int(len(placed))}
+            "placed_rows": len(placed)}

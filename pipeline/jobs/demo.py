@@ -11,8 +11,9 @@ from pipeline.store import open_store
 
 
 def run_demo(store_path: str | Path, *, data_dir: str | Path = "demo_data", n_items: int = 30_000, seed: int = 7,
-             embedder: str = "static", out: TextIO | None = None) -> dict:
-    """Every step the nightly job does, on the demo data; safe to re-run (unchanged inputs are skipped)."""
+             embedder: str = "static", out: TextIO | None = None, neo4j: str | None = None) -> dict:
+    """Every step the nightly job does, on the demo data; safe to re-run (unchanged inputs are skipped).
+    `neo4j`: a Neo4j URI to build the layer there instead of the embedded file `store_path`."""
     from pipeline.demo.scenario import generate_scenario, load_scenario, scenario_present
     from pipeline.embed.embed_job import embed
     from pipeline.ingest.items_job import ingest_items
@@ -31,7 +32,9 @@ def run_demo(store_path: str | Path, *, data_dir: str | Path = "demo_data", n_it
         say(f"Generating the invented demo scenario into {data_dir}/ ...")
         files = generate_scenario(data_dir, seed=seed, n_items=n_items)
     summary: dict = {"store": str(store_path), "data": str(data_dir), "steps": {}}
-    with open_store(store_path) as store:
+    with open_store(store_path, neo4j=neo4j) as store:
+        summary["store"] = store.location
+        where = f"--neo4j {store.location}" if neo4j else f"--store {store_path}"
         with ledger(store, "demo", {"data": str(data_dir), "seed": seed, "items": n_items}) as run:
             t0 = time.perf_counter()
             steps = summary["steps"]
@@ -62,11 +65,11 @@ def run_demo(store_path: str | Path, *, data_dir: str | Path = "demo_data", n_it
     if out:
         say("\nItems per top-level reference concept (including descendants), by supplier:\n")
         say(table.to_string(index=False))
-        say(f"\nBuilt in {summary['seconds']} s. Store: {store_path}. Try next:")
-        say(f"  graftwork --store {store_path} query rollup --concept {table['concept_code'].iloc[0]} --depth 1"
-            if len(table) else f"  graftwork --store {store_path} status")
-        say(f"  graftwork --store {store_path} export mappings --candidates 3 mappings.csv")
-        say(f"  graftwork --store {store_path} status")
+        say(f"\nBuilt in {summary['seconds']} s. Store: {summary['store']}. Try next:")
+        say(f"  graftwork {where} query rollup --concept {table['concept_code'].iloc[0]} --depth 1"
+            if len(table) else f"  graftwork {where} status")
+        say(f"  graftwork {where} export mappings --candidates 3 mappings.csv")
+        say(f"  graftwork {where} status")
     return summary
 
 

@@ -5,8 +5,9 @@ on, then one row per feature with that feature neutralised (`MapSettings.disable
 source's machine edges (`auto` / `proposed`; a person's decisions are never touched), so the last step maps once
 more with the settings of the store's last map run, leaving the edges as that run left them.
 
-The settings come from the last finished `map` run in the ledger (candidates, auto threshold, floor, switched-off
-features), else the defaults. Features the map job does not know yet are listed under `skipped` with the reason.
+The settings come from the last finished `map` run in the ledger (every option named like a `MapSettings` field,
+such as candidates, auto threshold and floor, and the switched-off features), else the defaults. A model learned
+with `map --learn` is kept in the store and used by every re-map. Features the map job does not know yet are listed under `skipped` with the reason.
 """
 
 from __future__ import annotations
@@ -20,9 +21,8 @@ from pipeline.store import Store
 
 log = logging.getLogger(__name__)
 
-ROW_METRICS = ("top1", "mrr", "coverage", "auto_coverage", "auto_precision", "auto_f1", "partial")
-# Map-run parameters (CLI names) carried over to the ablation runs, and the MapSettings fields they set.
-CARRIED = {"candidates": "candidates", "auto_threshold": "auto_threshold", "floor": "floor"}
+ROW_METRICS = ("top1", "mrr", "coverage", "auto_coverage", "auto_precision", "auto_rank1_precision", "auto_f1",
+               "partial")
 
 
 def known_features() -> tuple[str, ...] | None:
@@ -49,9 +49,10 @@ def last_map_settings(store: Store):
         params = json.loads(runs[0]["parameters"] or "{}")
     except (TypeError, ValueError):
         return settings
-    names = {f.name for f in dataclasses.fields(MapSettings)}
-    changes = {field: params[p] for p, field in CARRIED.items() if params.get(p) is not None and field in names}
-    if params.get("without") and "disabled" in names:
+    # A run's parameters are its CLI options by argparse name; those named like a MapSettings field carry over.
+    names = {f.name for f in dataclasses.fields(MapSettings)} - {"disabled"}
+    changes = {name: params[name] for name in names if params.get(name) is not None}
+    if params.get("without") and hasattr(settings, "disabled"):
         changes["disabled"] = frozenset(params["without"])
     return dataclasses.replace(settings, **changes)
 

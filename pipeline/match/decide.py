@@ -16,7 +16,7 @@ from pipeline.match.features import FEATURES, NEUTRAL, ScoringModel
 from pipeline.match.hierarchy_view import HierarchyView
 from pipeline.match.lexical_overlap import lexical_similarity
 
-T, LEX, MEM, PAR, DEP, INS = (FEATURES.index(f) for f in FEATURES)
+T, LEX, MEM, PAR, DEP, INS, SIG_PATH, SIG_LABEL, SIG_GLOSS, ROLE = (FEATURES.index(f) for f in FEATURES)
 
 
 @dataclass
@@ -29,6 +29,7 @@ class Evidence:
     members: np.ndarray | None = None      # category member-title mean vectors (zero row = no members)
     concept_gloss: np.ndarray | None = None
     votes: dict[int, dict[int, float]] | None = None  # category -> concept -> share of shared items there
+    signals: dict[str, tuple[np.ndarray, np.ndarray]] | None = None  # path/label/gloss: (category, concept) matrices
 
 
 @dataclass
@@ -79,6 +80,13 @@ def decide(cats: HierarchyView, concepts: HierarchyView, ev: Evidence, model: Sc
         else:
             f[:, PAR] = NEUTRAL["parent"]
         f[:, DEP] = depth_prior[cats.depth[ci], c_depth[idx]] if depth_prior is not None else NEUTRAL["depth"]
+        for col, name in ((SIG_PATH, "path"), (SIG_LABEL, "label"), (SIG_GLOSS, "gloss")):
+            if ev.signals and name in ev.signals:
+                qm, rm = ev.signals[name]
+                f[:, col] = rm[idx] @ qm[ci]
+            else:
+                f[:, col] = f[:, T]
+        f[:, ROLE] = [1.0 if concepts.is_leaf[j] == cats.is_leaf[ci] else 0.0 for j in cand]
         votes = (ev.votes or {}).get(ci, {})
         f[:, INS] = [votes.get(j, 0.0) for j in cand]
         logits = model.logit(f, disabled)

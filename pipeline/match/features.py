@@ -8,7 +8,10 @@
   0.5 when the category has no mapped parent;
 - depth: how usual the candidate's depth is for categories at this depth (learned per run, `rank.learn_depth_prior`);
   0.5 until learned;
-- instance: share of the category's shared items (same item key in another source) placed on this concept there.
+- instance: share of the category's shared items (same item key in another source) placed on this concept there;
+- path, label, gloss: the separate cosines behind `text` (path~path, label~label, label~gloss), so a learned model can
+  weigh them for the taxonomies at hand (the default weights leave them at 0: they are already inside `text`);
+- role: 1 when the concept's leaf/inner role matches the category's, else 0 (default weight 0).
 """
 
 from __future__ import annotations
@@ -17,8 +20,8 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-FEATURES = ("text", "lexical", "members", "parent", "depth", "instance")
-NEUTRAL = {"parent": 0.5, "depth": 0.5, "instance": 0.0}
+FEATURES = ("text", "lexical", "members", "parent", "depth", "instance", "path", "label", "gloss", "role")
+NEUTRAL = {"parent": 0.5, "depth": 0.5, "instance": 0.0, "role": 0.5}
 
 # Default logistic weights, used until a model is learned from labelled edges (`map --learn`). Set by reasoning,
 # not fitted: text dominates; each other feature can move a close call but not overturn a clear text winner.
@@ -53,6 +56,6 @@ class ScoringModel:
 def _neutral_value(name: str, feats: np.ndarray):
     if name in NEUTRAL:
         return NEUTRAL[name]
-    if name in ("members", "lexical"):
+    if name in ("members", "lexical", "path", "label", "gloss"):
         return feats[:, FEATURES.index("text")]  # switched off = as if it agreed with the text evidence
     return 0.0

@@ -92,7 +92,7 @@ def map_sources(store: Store, *, sources: list[str] | None = None, reference: st
 
 def load_model(store: Store) -> ScoringModel:
     stored = store.scalar("meta_get", key=MODEL_KEY)
-    return ScoringModel.from_json(json.loads(stored)) if stored else ScoringModel()
+    return ScoringModel.from_json(json.loads(stored)) if stored else ScoringModel()  # "" = forgotten
 
 
 def _pick_reference(schemes: list[dict], reference: str | None) -> str:
@@ -272,7 +272,9 @@ def _evidence_for(store, source, reference, cats, concepts, qmats, cmats, settin
                 excluded[kpos[cat]].add(cpos[con])
             else:
                 fixed[kpos[cat]] = cpos[con]
-    ev = Evidence(pools=pools, q_text=q, r_text=r, members=mem_matrix, concept_gloss=cmats["gloss"])
+    signals = {b if a == "label" and b == "gloss" else a: (qmats[a], cmats[b]) for a, b, _ in DEFAULT_SIGNALS}
+    ev = Evidence(pools=pools, q_text=q, r_text=r, members=mem_matrix, concept_gloss=cmats["gloss"],
+                  signals=signals)
     return ev, fixed, excluded
 
 

@@ -45,8 +45,10 @@ def _precision_coverage(ax, report: dict, precision_line: float) -> None:
             if p and (last_x is None or p["coverage"] - last_x >= 0.06):  # no labels on top of each other
                 last_x = p["coverage"]
                 ax.plot(p["coverage"], p["precision"], "o", color="tab:blue", ms=4)
+                right = p["coverage"] > 0.85  # keep labels near the right edge inside the axes
                 ax.annotate(f"\u2265{t:g}", (p["coverage"], p["precision"]), textcoords="offset points",
-                            xytext=(2, -13), fontsize=8, color="tab:blue")
+                            xytext=(-3 if right else 3, -13), ha="right" if right else "left", fontsize=8,
+                            color="tab:blue")
     if m.get("auto_rank1_precision") is not None:
         ax.plot(m["auto_coverage"], m["auto_rank1_precision"], "D", color="tab:orange", ms=8,
                 label=f"this run's rank-1 auto edges: precision {m['auto_rank1_precision']:.3f}")

@@ -52,5 +52,5 @@ def overlap(store: Store, *, reference: str | None = None, filters: Filters | No
 
 def overlap_summary(table: pd.DataFrame) -> dict:
     """Counts over an `overlap` table: shared keys, how many are placed everywhere, agree on concept and top."""
-    return {"shared_keys": int(len(table)), "all_placed": int(table["all_placed"].sum()),
+    return {"shared_keys": len(table), "all_placed": int(table["all_placed"].sum()),
             "same_concept": int(table["same_concept"].sum()), "same_top": int(table["same_top"].sum())}

@@ -31,7 +31,7 @@ class ReferenceTree:
                 self._children.setdefault(p, []).append(code)
 
     @classmethod
-    def load(cls, store: Store, reference: str) -> "ReferenceTree":
+    def load(cls, store: Store, reference: str) -> ReferenceTree:
         return cls(store.frame("query_concepts", reference=reference))
 
     def __contains__(self, code: str) -> bool:

@@ -11,7 +11,7 @@ from pipeline.ingest.graph_writer import node_uid
 from pipeline.query.filters import LIVE, Filters, check_filters, pick_reference
 from pipeline.store import Store
 
-__all__ = ["LIVE", "rollup", "natural_key", "concept_row", "wide_counts"]
+__all__ = ["LIVE", "concept_row", "natural_key", "rollup", "wide_counts"]
 
 
 def rollup(store: Store, *, concept: str | None = None, depth: int = 1, reference: str | None = None,

@@ -123,7 +123,7 @@ def _concept_hashes(store: Store, concepts: set[str]) -> dict[str, str]:
     out: dict[str, str] = {}
     for scheme in sorted({c.split(":", 1)[0] for c in concepts}):
         df = store.frame("concept_hashes", scheme=scheme)
-        out.update(zip(df["uid"], df["content_hash"]))
+        out.update(zip(df["uid"], df["content_hash"], strict=True))
     return out
 
 

@@ -15,7 +15,7 @@ def open_store(path: str | Path | None = None, *, neo4j: str | None = None, read
     if neo4j:
         from pipeline.store.neo4j_store import Neo4jStore  # noqa: PLC0415 (optional engine)
 
-        return Neo4jStore(neo4j)
+        return Neo4jStore(neo4j, read_only=read_only, create=create)
     from pipeline.store.ladybug_store import LadybugStore  # noqa: PLC0415
 
     return LadybugStore(path or DEFAULT_STORE, read_only=read_only, create=create)

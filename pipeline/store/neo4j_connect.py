@@ -122,5 +122,5 @@ def supports_vector_index(major: int, minor: int) -> bool:
 
 
 def _first_line(exc: Exception) -> str:
-    text = str(exc).strip().splitlines()
-    return text[0] if text else type(exc).__name__
+    text = " ".join(line.strip() for line in str(exc).strip().splitlines() if line.strip())
+    return text[:300] or type(exc).__name__

@@ -41,6 +41,14 @@ from pipeline.store.queries import load_query, statements
 log = logging.getLogger(__name__)
 ENGINE = "neo4j"
 VECTOR_INDEX = "graftwork_concept_vectors"
+# Server notifications about labels or properties not created yet (a fresh store) and about IF NOT EXISTS schema
+# commands are expected here; deprecations and performance hints still come through the driver's logger.
+_DRIVER_OPTIONS = {
+    "connection_timeout": 10.0,
+    "max_transaction_retry_time": 30.0,
+    "user_agent": f"graftwork/{__version__}",
+    "notifications_disabled_classifications": ["UNRECOGNIZED", "SCHEMA"],
+}
 
 
 class ReadOnlyStore(GraftworkError):
@@ -79,10 +87,7 @@ class Neo4jStore(Store):
         self._journal: list[_Op] = []
         s = self.settings
         auth = (s.user, s.password) if s.password is not None else None
-        self._driver = neo4j.GraphDatabase.driver(
-            s.uri, auth=auth, connection_timeout=10.0, max_transaction_retry_time=30.0,
-            user_agent=f"graftwork/{__version__}",
-        )
+        self._driver = neo4j.GraphDatabase.driver(s.uri, auth=auth, **_DRIVER_OPTIONS)
         try:
             self._driver.verify_connectivity()
             info = self._driver.get_server_info()
@@ -319,10 +324,16 @@ class Neo4jStore(Store):
             driver.close()
 
 
-def wipe_database(store: Neo4jStore) -> None:
-    """Delete every node and relationship in the store's database (tests only: Community has one user database).
-    Constraints and indexes stay; they are the same for every graftwork store."""
-    store._session.run(load_query("wipe_all", ENGINE)).consume()
+def wipe_database(uri: str, *, settings: Neo4jSettings | None = None) -> None:
+    """Delete every node and relationship in the database at `uri` (TESTS ONLY: Community has one user
+    database, so tests isolate by wiping). Works on any content; constraints and indexes stay."""
+    import neo4j
+
+    s = settings or Neo4jSettings.from_uri(uri)
+    auth = (s.user, s.password) if s.password is not None else None
+    with neo4j.GraphDatabase.driver(s.uri, auth=auth, **_DRIVER_OPTIONS) as driver:
+        with driver.session(database=s.database) as session:
+            session.run(load_query("wipe_all", ENGINE)).consume()
 
 
 # -- helpers ----------------------------------------------------------------------------------------------------
