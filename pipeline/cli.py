@@ -146,6 +146,9 @@ def _build():
     pl.add_argument("--source", action="append", metavar="KEY")
     pl.add_argument("--reference", metavar="KEY")
 
+    run = sub.add_parser("run", help="the nightly job from the config: ingest, embed, map, place what changed",
+                         parents=[common])
+    run.add_argument("--full", action="store_true", help="redo everything, not only what changed")
     sub.add_parser("status", help="what is in the store, and the last runs", parents=[common])
 
     demo = sub.add_parser("demo", help="build the invented demo scenario end to end", parents=[common])
@@ -194,6 +197,17 @@ def _dispatch(args):
         summary = run_demo(args.store or DEFAULT_STORE, data_dir=args.data, n_items=args.items, seed=args.seed,
                            embedder=args.embedder, out=None if args.json else sys.stdout, neo4j=args.neo4j)
         return summary if args.json else None  # the human report was printed as the demo went
+    if cmd == "run":
+        from pipeline.jobs.config import load_config
+        from pipeline.jobs.nightly import run_pipeline
+
+        cfg = load_config(args.config or "graftwork.toml")
+        if args.store:
+            cfg.store = args.store
+        if args.neo4j:
+            cfg.neo4j = args.neo4j
+        summary = run_pipeline(cfg, full=args.full, out=None if args.json else sys.stdout)
+        return summary if args.json else None
     if cmd == "status":
         from pipeline.jobs.status import store_status
 

@@ -123,3 +123,9 @@ def engine(request, tmp_path) -> Engine:
 def module_engine(request, tmp_path_factory) -> Engine:
     """One empty store per test module and engine (for modules that build a layer once and query it)."""
     return _engine(request.param, request, tmp_path_factory.mktemp(f"store-{request.param}"))
+
+
+@pytest.fixture()
+def neo4j_engine(request) -> Engine:
+    """An empty Neo4j store, for tests of what only the Neo4j engine does (mark them neo4j)."""
+    return _engine("neo4j", request, Path("."))

@@ -1,6 +1,7 @@
 """Items with their reference path (CSV, Parquet), the coverage picture, and the export/import command lines."""
 
 import json
+from pathlib import Path
 
 import pandas as pd
 import pytest
@@ -12,9 +13,10 @@ from pipeline.exchange.items_export import export_items, items_frame
 from pipeline.store import open_store
 
 
-@pytest.fixture()
-def store(tmp_path):
-    return tiny_layer(tmp_path)
+@pytest.fixture(scope="module")
+def store(tmp_path_factory):
+    # shared: these tests only read, or import a crosswalk that is already there (which changes nothing)
+    return tiny_layer(tmp_path_factory.mktemp("tiny"))
 
 
 def test_items_frame_has_one_row_per_placement_with_path_and_levels(store):
@@ -79,6 +81,6 @@ def test_cli_import_errors_exit_2_naming_the_line(store, tmp_path, capsys):
     err = capsys.readouterr().err
     assert err.startswith("graftwork: ") and "bad.csv:3 [source_code]" in err and "'zz'" in err
     assert main(["--store", store, "import", "mappings", str(bad), "--prefix", "nonsense"]) == 2
-    assert main(["--store", store, "--json", "import", "mappings", str(tmp_path / "crosswalk.csv"),
+    assert main(["--store", store, "--json", "import", "mappings", str(Path(store).parent / "crosswalk.csv"),
                  "--by", "kit"]) == 0
     assert json.loads(capsys.readouterr().out.splitlines()[-1])["unchanged"] == 5

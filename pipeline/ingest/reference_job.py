@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import json
 from datetime import datetime, timezone
 from pathlib import Path
 
@@ -51,14 +52,53 @@ def ingest_reference(
                                field="--scheme"))
 
     rows, parents = _concept_rows(concepts, file=str(path))
+    before = _snapshot(store, key)
     with store.transaction():
         store.run(
             "scheme_upsert", key=key, role="reference", title=title or key, iri=iri or "", version=version or "",
             source_file=str(path), content_hash=file_hash(path),
             ingested_at=datetime.now(timezone.utc).isoformat(timespec="seconds"),
+            reader_options=json.dumps({"format": fmt, "lang": lang, "root": root or ""}),
         )
         diff = write_hierarchy(store, "Concept", key, rows, parents)
-    return {"scheme": key, "file": str(path), "concepts": len(rows), **diff.counts()}
+        upgrade = _classify(before, rows, parents, key, diff)
+        # Decisions on concepts that vanished or moved go back to review (status stale), in the same transaction.
+        stale_targets = sorted(set(diff.retired) | set(upgrade["moved"]))
+        if stale_targets and before:
+            store.run("edges_mark_stale", uids=stale_targets)
+    summary = {"scheme": key, "file": str(path), "concepts": len(rows), **diff.counts()}
+    if before:
+        summary["upgrade"] = {k: len(v) for k, v in upgrade.items()} | {"removed": len(diff.retired)}
+        summary["upgrade_detail"] = {k: v[:50] for k, v in upgrade.items()} | {"removed": diff.retired[:50]}
+    return summary
+
+
+def _snapshot(store: Store, key: str) -> dict[str, tuple[str, frozenset]]:
+    """Label and parents of every live concept before a re-ingest, to describe an upgrade."""
+    df = store.frame("concept_structure", scheme=key)
+    out: dict[str, tuple[str, set]] = {}
+    for uid, label, parent in zip(df.get("uid", []), df.get("label", []), df.get("parent", [])):
+        entry = out.setdefault(uid, (label, set()))
+        if isinstance(parent, str):
+            entry[1].add(parent)
+    return {u: (lab, frozenset(ps)) for u, (lab, ps) in out.items()}
+
+
+def _classify(before, rows, parents, key, diff) -> dict[str, list[str]]:
+    from pipeline.ingest.graph_writer import node_uid
+
+    relabelled, moved = [], []
+    for row in rows:
+        uid = node_uid(key, row["code"])
+        if uid not in before:
+            continue
+        old_label, old_parents = before[uid]
+        new_parents = frozenset(node_uid(key, p) for p in parents.get(row["code"], []))
+        if old_label != row["pref_label"]:
+            relabelled.append(uid)
+        if old_parents != new_parents:
+            moved.append(uid)
+    return {"added": list(diff.added), "relabelled": relabelled, "moved": moved}
 
 
 def _concept_rows(concepts: list[ConceptRecord], *, file: str) -> tuple[list[dict], dict[str, list[str]]]:

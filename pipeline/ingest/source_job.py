@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import json
 from datetime import datetime, timezone
 from pathlib import Path
 
@@ -48,6 +49,7 @@ def ingest_source(store: Store, key: str, path: str | Path, *, fmt: str = "tree"
         store.run(
             "scheme_upsert", key=key, role="source", title=key, iri="", version="", source_file=str(path),
             content_hash=file_hash(path), ingested_at=datetime.now(timezone.utc).isoformat(timespec="seconds"),
+            reader_options=json.dumps({"format": fmt, **{k: v for k, v in options.items() if isinstance(v, str)}}),
         )
         diff = write_hierarchy(store, "Category", key, rows, h.parents)
     return {"source": key, "file": str(path), "format": fmt, "categories": len(rows), **diff.counts()}

@@ -24,6 +24,7 @@ from pipeline.match.decide import Evidence, Ranked, decide, learn_depth_prior
 from pipeline.match.features import FEATURES, ScoringModel
 from pipeline.match.hierarchy_view import HierarchyView
 from pipeline.match.match_type import match_type
+from pipeline.hashing import content_hash as hash_text
 from pipeline.store import Store
 
 log = logging.getLogger(__name__)
@@ -90,6 +91,24 @@ def map_sources(store: Store, *, sources: list[str] | None = None, reference: st
     return summary
 
 
+def mapping_tags(store: Store, source: str, reference: str) -> dict[str, str]:
+    """What each category's edges would be made from now: its content, the embedder and the reference version.
+    A category whose stored `mapped_with` differs needs mapping (this survives a run killed half-way)."""
+    ref = store.rows("scheme_get", key=reference)
+    ref_hash = ref[0]["content_hash"] if ref else ""
+    embedder = store.scalar("meta_get", key="embedder_id") or ""
+    model = store.scalar("meta_get", key=MODEL_KEY) or ""
+    pending = store.frame("categories_pending", scheme=source)
+    suffix = f"|{embedder}|{ref_hash}|{hash_text(model)}"
+    return {u: f"{h}{suffix}" for u, h in zip(pending["uid"], pending["content_hash"])}
+
+
+def categories_to_map(store: Store, source: str, reference: str) -> list[str]:
+    tags = mapping_tags(store, source, reference)
+    pending = store.frame("categories_pending", scheme=source)
+    return [u for u, m in zip(pending["uid"], pending["mapped_with"]) if tags.get(u) != m]
+
+
 def load_model(store: Store) -> ScoringModel:
     stored = store.scalar("meta_get", key=MODEL_KEY)
     return ScoringModel.from_json(json.loads(stored)) if stored else ScoringModel()  # "" = forgotten
@@ -139,6 +158,7 @@ class _Plan:
     todo: list
     prior: np.ndarray | None
     first: list | None = None
+    tags: dict = field(default_factory=dict)  # category uid -> what it is mapped with (see mapping_tag)
 
     def first_choice(self) -> dict[str, str]:
         out = {self.cats.uids[ci]: self.concepts.uids[j] for ci, j in self.context.items()}
@@ -172,6 +192,7 @@ def _plan(store: Store, source: str, reference: str, concept_side, settings: Map
             if cat in kpos and con in cpos and kpos[cat] not in todo_set:
                 context.setdefault(kpos[cat], cpos[con])
     plan = _Plan(source, reference, cats, concepts, ev, fixed, excluded, context, todo, None)
+    plan.tags = mapping_tags(store, source, reference)
     prior_key = f"depth_prior:{source}"
     if subset is None:
         first = decide(cats, concepts, ev, model, disabled=settings.disabled, excluded=excluded, fixed_top=context,
@@ -232,6 +253,9 @@ def _write(store: Store, plan: _Plan, settings: MapSettings, model: ScoringModel
         store.run("machine_edges_clear", uids=[cats.uids[ci] for ci in plan.todo], reference=plan.reference)
         if rows:
             store.bulk("machine_edges_create", pd.DataFrame(rows))
+        if plan.todo:
+            uids = [cats.uids[ci] for ci in plan.todo]
+            store.bulk("categories_mark_mapped", pd.DataFrame({"uid": uids, "tag": [plan.tags.get(u, "") for u in uids]}))
     counts["categories"] = len(plan.todo)
     log.info("mapped %s: %s", plan.source, counts)
     return counts

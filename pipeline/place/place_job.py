@@ -10,9 +10,10 @@ BLOCK = 2_000  # categories per transaction: bounded memory, and a kill loses at
 
 
 def place(store: Store, *, sources: list[str] | None = None, categories: list[str] | None = None,
-          reference: str | None = None) -> dict:
-    """Re-place the items of `categories` (uids), or of every category of `sources` (default: all sources).
-    Each block of categories is cleared and placed in one transaction, so a re-run converges."""
+          reference: str | None = None, pending_only: bool = False) -> dict:
+    """Re-place the items of `categories` (uids), or of every category of `sources` (default: all sources);
+    with `pending_only`, only the categories marked as waiting (new items, new edges).
+    Each block of categories is cleared, placed and unmarked in one transaction, so a re-run converges."""
     schemes = store.rows("schemes_list")
     reference = _pick_reference(schemes, reference)
     if categories is None:
@@ -21,12 +22,19 @@ def place(store: Store, *, sources: list[str] | None = None, categories: list[st
         unknown = [s for s in chosen if s not in known]
         if unknown:
             raise NotFound(f"unknown source(s): {', '.join(unknown)}")
-        categories = [u for s in chosen for u in store.frame("source_category_uids", scheme=s)["uid"]]
+        if pending_only:
+            categories = []
+            for s in chosen:
+                pend = store.frame("categories_pending", scheme=s)
+                categories += [u for u, d in zip(pend["uid"], pend["place_dirty"]) if d is True or d == 1]
+        else:
+            categories = [u for s in chosen for u in store.frame("source_category_uids", scheme=s)["uid"]]
     for start in range(0, len(categories), BLOCK):
         block = list(categories[start:start + BLOCK])
         with store.transaction():
             store.run("placements_clear", uids=block)
             store.run("placements_create", uids=block, reference=reference)
+            store.run("categories_mark_placed", uids=block)
     placed = store.frame("count_placed", reference=reference)
     return {"reference": reference, "categories": len(categories),
             "placements": int(placed["placements"].iloc[0]) if len(placed) else 0,

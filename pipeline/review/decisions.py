@@ -7,6 +7,8 @@
   now (accepted or auto) become `rejected`, its other machine edges are dropped.
 - reopen: the decision is withdrawn: a decided edge that a run had proposed goes back to `proposed` (the next run
   replaces it), one a person made is removed. Without a concept, every decision of the category is reopened.
+  A `stale` edge (a decision a reference upgrade sent back to review) counts as a decision here; accepting it
+  again confirms it, and a remap rejects it.
 
 Each change appends an `EdgeEvent` (pipeline/review/events.py), and the category's items are placed again.
 A decision with a `ref` (an imported sheet row, a queued decision) is applied at most once.
@@ -26,6 +28,7 @@ from pipeline.review.tree import ConceptTree
 from pipeline.store import Store
 
 ACTIONS = ("accept", "reject", "remap", "reopen")
+DECIDED = ("accepted", "rejected", "stale")  # stale: a decision a reference upgrade sent back to review
 USER_ENV = "GRAFTWORK_USER"
 
 
@@ -176,7 +179,7 @@ def resolve(store: Store, d: Decision, reference: str, tree: ConceptTree | None 
 def _resolve_reopen(store: Store, d: Decision, category: str, reference: str, where: dict) -> Resolved:
     decided = {e["concept"]: e["concept_code"] for e in store.rows("review_category_edges", category=category,
                                                                     reference=reference)
-               if e["status"] in ("accepted", "rejected")}
+               if e["status"] in DECIDED}
     if not d.concept:
         if not decided:
             raise NotFound(f"no decision to reopen on {category}")
@@ -223,15 +226,15 @@ def _apply(store: Store, r: Resolved, reference: str, tree: ConceptTree) -> list
         for concept, e in edges.items():
             if concept == r.concept:
                 continue
-            if d.action == "remap" and e["status"] in ("accepted", "auto"):
+            if d.action == "remap" and e["status"] in ("accepted", "auto", "stale"):
                 set_status(concept, "rejected", note=_join(f"remapped to {r.concept_code}", d.note))
             elif e["status"] in ("auto", "proposed"):
                 drop(concept)
     elif d.action == "reject":
         set_status(r.concept, "rejected")
     else:  # reopen
-        targets = [r.concept] if r.concept else [c for c, e in edges.items() if e["status"] in ("accepted", "rejected")]
-        targets = [c for c in targets if c in edges and edges[c]["status"] in ("accepted", "rejected")]
+        targets = [r.concept] if r.concept else [c for c, e in edges.items() if e["status"] in DECIDED]
+        targets = [c for c in targets if c in edges and edges[c]["status"] in DECIDED]
         for concept in targets:
             e = edges[concept]
             if e["method"] == "steward":

@@ -7,8 +7,9 @@
   mapped outside the subtree of its parent category's concept; or two sources' categories sharing at least
   `min_shared` item keys (and `min_share` of the smaller one) whose concepts are unrelated (neither is the other
   or an ancestor of it).
-- stale: live edges to concepts retired from the reference, or changed (their content hash differs from the one
-  recorded when the edge was last proposed or decided).
+- stale: decisions a reference upgrade sent back to review (edge status `stale`: the concept was retired or
+  moved), and live edges to concepts retired from the reference, or changed (their content hash differs from the
+  one recorded when the edge was last proposed or decided).
 
 >>> QUEUES
 ('unmapped', 'uncertain', 'conflicting', 'stale')
@@ -113,8 +114,8 @@ class ReviewSnapshot:
         out = {}
         for uid in self.categories:
             es = self.edges.get(uid, [])
-            if any(e["status"] in ("accepted", "auto", "proposed") for e in es):
-                continue
+            if any(e["status"] in ("accepted", "auto", "proposed", "stale") for e in es):
+                continue  # (a stale decision is listed in the stale queue)
             rejected = sum(e["status"] == "rejected" for e in es)
             out[uid] = [f"every candidate was rejected ({rejected})" if rejected else "no candidate above the floor"]
         return out
@@ -200,6 +201,13 @@ class ReviewSnapshot:
         out: dict[str, list[str]] = defaultdict(list)
         for uid in self.categories:
             for e in self.edges.get(uid, []):
+                if e["status"] == "stale":
+                    node = t.nodes.get(e["concept"])
+                    what = "was retired" if node is None or node.retired else f"moved (now: {node.path})"
+                    by = f" by {e['decided_by']}" if e["decided_by"] else ""
+                    out[uid].append(f"decision{by} on {_name(e)} went back to review: the concept {what} in a "
+                                    "reference upgrade")
+                    continue
                 if e["status"] not in LIVE:
                     continue
                 node = t.nodes.get(e["concept"])
@@ -273,7 +281,7 @@ def _titles(store: Store, uids: list[str], n: int) -> dict[str, list[str]]:
 
 
 def _edge_order(e: dict):
-    status_first = {"accepted": 0, "auto": 1, "proposed": 2, "rejected": 3}.get(e["status"], 4)
+    status_first = {"accepted": 0, "stale": 1, "auto": 2, "proposed": 3, "rejected": 4}.get(e["status"], 5)
     rank = _int(e["rank"])
     return (status_first, rank if rank is not None else 10**6, -(_num(e["score"]) or 0.0), e["concept"])
 

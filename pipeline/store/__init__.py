@@ -10,7 +10,7 @@ DEFAULT_STORE = "graftwork.lbug"
 
 
 def open_store(path: str | Path | None = None, *, neo4j: str | None = None, read_only: bool = False,
-               create: bool = True) -> Store:
+               create: bool = True, lock_timeout: float = 0.0) -> Store:
     """Open the embedded store at `path` (created on first write), or a Neo4j database at URI `neo4j`."""
     if neo4j:
         from pipeline.store.neo4j_store import Neo4jStore  # noqa: PLC0415 (optional engine)
@@ -18,7 +18,7 @@ def open_store(path: str | Path | None = None, *, neo4j: str | None = None, read
         return Neo4jStore(neo4j, read_only=read_only, create=create)
     from pipeline.store.ladybug_store import LadybugStore  # noqa: PLC0415
 
-    return LadybugStore(path or DEFAULT_STORE, read_only=read_only, create=create)
+    return LadybugStore(path or DEFAULT_STORE, read_only=read_only, create=create, lock_timeout=lock_timeout)
 
 
 __all__ = ["Store", "VectorSet", "open_store", "DEFAULT_STORE"]

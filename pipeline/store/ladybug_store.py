@@ -5,6 +5,7 @@ from __future__ import annotations
 import contextlib
 import logging
 import re
+import time
 from collections.abc import Sequence
 from pathlib import Path
 
@@ -23,7 +24,8 @@ ENGINE = "ladybug"
 class LadybugStore(Store):
     engine = ENGINE
 
-    def __init__(self, path: str | Path, *, read_only: bool = False, create: bool = True):
+    def __init__(self, path: str | Path, *, read_only: bool = False, create: bool = True,
+                 lock_timeout: float = 0.0):
         import ladybug  # imported here so the Neo4j engine never needs it loaded
 
         self.location = str(path)
@@ -33,18 +35,27 @@ class LadybugStore(Store):
         if p.is_dir():
             raise NotAStore(f"{path}: is a folder, not a graftwork store file")
         fresh = not p.exists()
-        try:
-            self._db = ladybug.Database(str(p), read_only=read_only)
-            self._conn = ladybug.Connection(self._db)
-        except RuntimeError as exc:
-            raise _translate_open_error(path, exc) from None
+        deadline = time.monotonic() + max(0.0, lock_timeout)
+        while True:
+            try:
+                self._db = ladybug.Database(str(p), read_only=read_only)
+                self._conn = ladybug.Connection(self._db)
+                break
+            except RuntimeError as exc:
+                error = _translate_open_error(path, exc)
+                # Another job holds the store: wait for it up to the timeout, then give up with exit code 3.
+                if not isinstance(error, StoreLocked) or time.monotonic() >= deadline:
+                    if isinstance(error, StoreLocked) and lock_timeout > 0:
+                        error = StoreLocked(f"{error} (waited {lock_timeout:g} s)")
+                    raise error from None
+                time.sleep(0.5)
         self._tx_depth = 0
         self.read_only = read_only
         self._check_or_create_schema(fresh)
 
     # -- schema -------------------------------------------------------------------------------------------------
     def _check_or_create_schema(self, fresh: bool) -> None:
-        tables = set(self._conn.execute("CALL show_tables() RETURN name").get_as_df()["name"])
+        tables = set(self._conn.execute(load_query("store_tables", ENGINE)).get_as_df()["name"])
         if tables and "Meta" not in tables:
             raise NotAStore(f"{self.location}: a LadybugDB file, but not a graftwork store (no Meta table)")
         if "Meta" in tables:
@@ -53,19 +64,18 @@ class LadybugStore(Store):
                 raise NotAStore(
                     f"{self.location}: graftwork schema version {version!r}, this graftwork needs {SCHEMA_VERSION!r}"
                 )
-            return
-        if self.read_only:
+            if self.read_only:
+                return
+        elif self.read_only:
             raise NotAStore(f"{self.location}: empty store (nothing ingested yet)")
+        # Every statement is IF NOT EXISTS: a store made by an earlier build gains the tables added since.
         with self.transaction():
             for stmt in statements(load_query("schema", ENGINE)):
                 self._conn.execute(stmt)
-            self._conn.execute(
-                "MERGE (m:Meta {key: $k}) SET m.value = $v", {"k": "schema_version", "v": SCHEMA_VERSION}
-            )
-        log.info("created graftwork schema in %s", self.location)
+            self._conn.execute(load_query("meta_set", ENGINE), {"key": "schema_version", "value": SCHEMA_VERSION})
 
     def _meta(self, key: str) -> str | None:
-        df = self._conn.execute("MATCH (m:Meta {key: $k}) RETURN m.value AS v", {"k": key}).get_as_df()
+        df = self._conn.execute(load_query("meta_get", ENGINE), {"key": key}).get_as_df()
         return None if df.empty else df.iloc[0, 0]
 
     # -- queries ------------------------------------------------------------------------------------------------

@@ -1,0 +1,6 @@
+// categories_mark_mapped: record what each category was last mapped with, and that its items need placing.
+// writes: Category.mapped_with, Category.place_dirty. parameters: $rows (uid, tag). Run in the same
+// transaction as the edges it describes. safe to re-run.
+UNWIND $rows AS r
+MATCH (c:Category {uid: r.uid})
+SET c.mapped_with = r.tag, c.place_dirty = true

@@ -1,0 +1,176 @@
+"""`graftwork run`: the whole nightly job from a config — ingest, embed, map, place — doing only what changed.
+
+What changed is read from the graph itself, so a run killed at any point is finished by the next one:
+files already taken in are skipped by content hash; a category is re-mapped when what it was last mapped with
+(its content, the embedder, the reference version, the scoring model) differs from now; items wait for placing
+under a mark committed with them.
+"""
+
+from __future__ import annotations
+
+import json
+import logging
+import time
+from typing import TextIO
+
+from pipeline.hashing import file_hash
+from pipeline.jobs.config import Config
+from pipeline.jobs.ledger import ledger
+from pipeline.store import open_store
+
+log = logging.getLogger(__name__)
+
+
+def run_pipeline(cfg: Config, *, full: bool = False, out: TextIO | None = None) -> dict:
+    from pipeline.embed.embed_job import embed
+    from pipeline.ingest.items_job import ingest_items
+    from pipeline.ingest.reference_job import ingest_reference
+    from pipeline.ingest.source_job import ingest_source
+    from pipeline.match.map_job import MapSettings, categories_to_map, map_sources
+    from pipeline.place.place_job import place
+
+    say = (lambda msg: print(msg, file=out, flush=True)) if out else (lambda msg: None)
+    inputs = {"reference": str(cfg.reference), "sources": {s.key: str(s.taxonomy) for s in cfg.sources}}
+    summary: dict = {"store": cfg.neo4j or cfg.store, "stages": {}, "seconds": {}}
+    with open_store(cfg.store, neo4j=cfg.neo4j, lock_timeout=cfg.lock_timeout) as store:
+        with ledger(store, "run", {"config": str(cfg.path), "full": full, "inputs": inputs}) as run:
+            stages, seconds = summary["stages"], summary["seconds"]
+
+            def timed(name):
+                return _Timer(seconds, name)
+
+            with timed("ingest"):
+                scheme = cfg.reference_scheme or None
+                ref_key = scheme or _default_key(cfg)
+                if full or _changed(store, ref_key, cfg.reference, {"format": cfg.reference_format,
+                                                                    "lang": cfg.reference_lang,
+                                                                    "root": cfg.reference_root or ""}):
+                    stages["reference"] = ingest_reference(store, cfg.reference, fmt=cfg.reference_format,
+                                                           scheme=ref_key, lang=cfg.reference_lang,
+                                                           root=cfg.reference_root)
+                    say(f"  reference {ref_key}: {_counts(stages['reference'])}")
+                else:
+                    stages["reference"] = {"scheme": ref_key, "skipped": True}
+                for src in cfg.sources:
+                    opts = _taxonomy_options(src)
+                    if full or _changed(store, src.key, src.taxonomy, {"format": src.format, **opts}):
+                        stages[f"source {src.key}"] = ingest_source(store, src.key, src.taxonomy, fmt=src.format,
+                                                                    **opts)
+                        say(f"  source {src.key}: {_counts(stages[f'source {src.key}'])}")
+                    item_runs = []
+                    for f in src.item_files():
+                        r = ingest_items(store, src.key, f, category_separator=src.category_separator or None,
+                                         force=full, run_id=run["run_id"], **_item_options(src))
+                        r.pop("changed_categories", None)
+                        item_runs.append(r)
+                        if not r.get("skipped"):
+                            say(f"  items {src.key} {f.name}: {r['rows_items']} rows, {r['rejected']} rejected")
+                    stages[f"items {src.key}"] = item_runs
+            with timed("embed"):
+                stages["embed"] = embed(store, embedder=cfg.embedder)
+                say(f"  embed: {stages['embed']['embedded']} texts embedded, {stages['embed']['skipped']} unchanged")
+            with timed("map"):
+                settings = MapSettings(candidates=cfg.candidates, auto_threshold=cfg.auto_threshold)
+                if cfg.floor is not None:
+                    settings.floor = cfg.floor
+                reference = ref_key
+                only = None
+                if not full:
+                    only = {}
+                    for src in cfg.sources:
+                        need = categories_to_map(store, src.key, reference)
+                        total = len(store.frame("categories_pending", scheme=src.key))
+                        # Everything pending (first run, new reference or embedder): a full map also learns
+                        # the depth prior afresh; otherwise map the changed categories alone.
+                        only[src.key] = need if len(need) < total else None
+                stages["map"] = _map(map_sources, store, reference, settings, run["run_id"], only,
+                                     [s.key for s in cfg.sources])
+                for key, c in stages["map"].get("sources", {}).items():
+                    say(f"  map {key}: {c['categories']} categories -> {c['auto']} auto, {c['proposed']} proposed, "
+                        f"{c['unmapped']} unmapped")
+            with timed("place"):
+                stages["place"] = place(store, sources=[s.key for s in cfg.sources], reference=reference,
+                                        pending_only=not full)
+                say(f"  place: {stages['place']['categories']} categories re-placed, "
+                    f"{stages['place']['items_placed']} items placed in all")
+            run["counts"] = {"stages": _compact(stages), "seconds": seconds,
+                             "input_hashes": _input_hashes(cfg)}
+            summary["run_id"] = run["run_id"]
+    return summary
+
+
+def _map(map_sources, store, reference, settings, run_id, only, keys):
+    if only is None:
+        return map_sources(store, sources=keys, reference=reference, settings=settings, run_id=run_id)
+    full_keys = [k for k, v in only.items() if v is None]
+    partial = {k: v for k, v in only.items() if v}
+    result = {"reference": reference, "sources": {}}
+    if full_keys:
+        result = map_sources(store, sources=full_keys, reference=reference, settings=settings, run_id=run_id)
+    if partial:
+        part = map_sources(store, sources=list(partial), reference=reference, settings=settings, run_id=run_id,
+                           only=partial)
+        result.setdefault("sources", {}).update(part["sources"])
+    return result
+
+
+class _Timer:
+    def __init__(self, sink: dict, name: str):
+        self.sink, self.name = sink, name
+
+    def __enter__(self):
+        self.start = time.perf_counter()
+
+    def __exit__(self, *exc):
+        self.sink[self.name] = round(time.perf_counter() - self.start, 3)
+
+
+def _changed(store, key, path, options: dict) -> bool:
+    stored = store.rows("scheme_get", key=key)
+    if not stored:
+        return True
+    old_opts = json.loads(stored[0].get("reader_options") or "{}")
+    return stored[0]["content_hash"] != file_hash(path) or any(old_opts.get(k) != v for k, v in options.items())
+
+
+def _default_key(cfg: Config) -> str:
+    from pipeline.ingest.scheme_keys import key_from_filename
+
+    return key_from_filename(cfg.reference)
+
+
+def _taxonomy_options(src) -> dict:
+    names = {"code": "code_col", "label": "label_col", "parent": "parent_col", "path": "path_col", "tag": "tag_col"}
+    opts = {names[k]: v for k, v in src.columns.items() if k in names}
+    if src.format == "paths":
+        opts["separator"] = src.separator
+    return opts
+
+
+def _item_options(src) -> dict:
+    names = {"key": "key_col", "title": "title_col", "category": "category_col"}
+    return {names[k]: v for k, v in src.columns.items() if k in names}
+
+
+def _counts(d: dict) -> str:
+    keys = ("added", "changed", "unchanged", "retired")
+    return ", ".join(f"{d[k]} {k}" for k in keys if k in d)
+
+
+def _compact(stages: dict) -> dict:
+    out = {}
+    for k, v in stages.items():
+        if isinstance(v, dict):
+            out[k] = {kk: vv for kk, vv in v.items() if kk != "upgrade_detail"}
+        else:
+            out[k] = v
+    return out
+
+
+def _input_hashes(cfg: Config) -> dict:
+    hashes = {str(cfg.reference): file_hash(cfg.reference)}
+    for src in cfg.sources:
+        hashes[str(src.taxonomy)] = file_hash(src.taxonomy)
+        for f in src.item_files():
+            hashes[str(f)] = file_hash(f)
+    return hashes
