@@ -14,7 +14,7 @@ import numpy as np
 
 from pipeline.match.features import FEATURES, NEUTRAL, ScoringModel
 from pipeline.match.hierarchy_view import HierarchyView
-from pipeline.match.lexical_overlap import lexical_similarity
+from pipeline.match.lexical_overlap import lexical_similarity, word_weights
 
 T, LEX, MEM, PAR, DEP, INS, SIG_PATH, SIG_LABEL, SIG_GLOSS, ROLE = (FEATURES.index(f) for f in FEATURES)
 
@@ -49,6 +49,7 @@ def decide(cats: HierarchyView, concepts: HierarchyView, ev: Evidence, model: Sc
     fixed_top = fixed_top or {}
     anc = concepts.ancestors()
     concept_labels = [[concepts.labels[j], *concepts.alt_labels[j]] for j in range(len(concepts.uids))]
+    weights = word_weights([*cats.labels, *concepts.labels])
     c_depth = np.array(concepts.depth)
     region = [[j] if not concepts.is_leaf[j] or not concepts.parents[j] else list(concepts.parents[j])
               for j in range(len(concepts.uids))]
@@ -67,7 +68,8 @@ def decide(cats: HierarchyView, concepts: HierarchyView, ev: Evidence, model: Sc
         idx = np.array(cand)
         f = np.empty((len(cand), len(FEATURES)))
         f[:, T] = ev.r_text[idx] @ ev.q_text[ci]
-        f[:, LEX] = [max(lexical_similarity(cats.labels[ci], lab) for lab in concept_labels[j] if lab) for j in cand]
+        f[:, LEX] = [max((lexical_similarity(cats.labels[ci], lab, weights) for lab in concept_labels[j] if lab),
+                         default=0.0) for j in cand]
         if has_members and np.any(ev.members[ci]):
             f[:, MEM] = ev.concept_gloss[idx] @ ev.members[ci]
         else:

@@ -42,11 +42,31 @@ def trigrams(label: str) -> frozenset[str]:
     return frozenset(text[i:i + 3] for i in range(len(text) - 2))
 
 
-def lexical_similarity(a: str, b: str) -> float:
+def word_weights(labels) -> dict[str, float]:
+    """Smoothed inverse document frequency of each normalised word over `labels` (common TF-IDF practice, no
+    source): words shared by many nodes ("farming", "products") count for less than the words that tell nodes
+    apart."""
+    import math
+
+    df: dict[str, int] = {}
+    n = 0
+    for label in labels:
+        n += 1
+        for w in word_set(label):
+            df[w] = df.get(w, 0) + 1
+    return {w: math.log((1 + n) / (1 + c)) + 1.0 for w, c in df.items()}
+
+
+def lexical_similarity(a: str, b: str, weights: dict[str, float] | None = None) -> float:
+    """With `weights` (see `word_weights`), the word overlap is a weighted Jaccard."""
     wa, wb = word_set(a), word_set(b)
     if not wa or not wb:
         return 0.0
-    jaccard = len(wa & wb) / len(wa | wb)
+    if weights:
+        union = sum(weights.get(w, 1.0) for w in wa | wb)
+        jaccard = sum(weights.get(w, 1.0) for w in wa & wb) / union
+    else:
+        jaccard = len(wa & wb) / len(wa | wb)
     ta, tb = trigrams(a), trigrams(b)
     dice = 2 * len(ta & tb) / (len(ta) + len(tb)) if ta and tb else 0.0
     return (jaccard + dice) / 2
