@@ -9,7 +9,9 @@ import argparse
 import json
 import logging
 import os
+import signal
 import sys
+import threading
 from pathlib import Path
 
 from pipeline import __version__
@@ -160,11 +162,31 @@ def _build():
     return p, handlers
 
 
+class Terminated(KeyboardInterrupt):
+    """SIGTERM (a scheduler or `kill` stopping the job), raised like Ctrl-C so the transaction in flight rolls
+    back and the job stops at the last committed batch."""
+
+
+def _terminate(signum, frame):
+    raise Terminated()
+
+
 def main(argv: list[str] | None = None) -> int:
     parser, handlers = _build()
     args = parser.parse_args(argv)
     logging.basicConfig(level=logging.WARNING - 10 * min(2, args.verbose or 0),
                         format="%(levelname)s %(name)s: %(message)s")
+    # Only the main thread may set handlers; the previous one comes back after (tests call main in-process).
+    previous = signal.signal(signal.SIGTERM, _terminate) if threading.current_thread() is threading.main_thread() \
+        else None
+    try:
+        return _main(args, handlers)
+    finally:
+        if previous is not None:
+            signal.signal(signal.SIGTERM, previous)
+
+
+def _main(args, handlers) -> int:
     try:
         handler = handlers.get(args.command)
         result = handler(args, Context(args)) if handler else _dispatch(args)
@@ -174,8 +196,10 @@ def main(argv: list[str] | None = None) -> int:
     except (FileNotFoundError, IsADirectoryError, PermissionError) as exc:
         print(f"graftwork: {exc.filename}: {exc.strerror}", file=sys.stderr)
         return 2
-    except KeyboardInterrupt:
-        print("graftwork: interrupted; the last batch was rolled back, re-run to continue", file=sys.stderr)
+    except KeyboardInterrupt as exc:
+        why = "stopped by SIGTERM" if isinstance(exc, Terminated) else "interrupted"
+        print(f"graftwork: {why}; the batch in flight was rolled back, committed batches are kept; "
+              "re-run to continue", file=sys.stderr)
         return 1
     if result is not None:
         _print(result, as_json=bool(args.json))

@@ -89,24 +89,40 @@ def _safe_path_code(path_code, text: str, sep: str) -> str:
 
 
 def _write_batch(store: Store, key: str, items, now: str) -> None:
-    item_rows = pd.DataFrame(
-        {
-            "uid": [node_uid(key, i.key) for i in items],
-            "source": key,
-            "item_key": [i.key for i in items],
-            "title": [i.title for i in items],
-            "attributes": [json.dumps(i.attributes, ensure_ascii=False, sort_keys=True) for i in items],
-        }
-    )
+    uids = [node_uid(key, i.key) for i in items]
     links = pd.DataFrame(
-        [(node_uid(key, i.key), node_uid(key, c)) for i in items for c in i.category_codes],
+        [(u, node_uid(key, c)) for u, i in zip(uids, items) for c in i.category_codes],
         columns=["item", "category"],
     )
     with store.transaction():
-        store.bulk("items_upsert", item_rows, now=now)
-        store.bulk("items_file_under", links)
+        # Items not in the store yet are appended with the engine's bulk copy (profiled: MERGE ran at about a
+        # fifth of COPY's rate); known items and continuations of keys from earlier batches go through MERGE.
+        known = set(store.frame("items_existing", uids=uids)["uid"]) if uids else set()
+        new = [u not in known for u in uids]
+        item_rows = pd.DataFrame(
+            {
+                "uid": uids,
+                "source": key,
+                "item_key": [i.key for i in items],
+                "title": [i.title for i in items],
+                "attributes": [json.dumps(i.attributes, ensure_ascii=False, sort_keys=True) for i in items],
+                "first_seen": now,
+                "last_seen": now,
+            }
+        )
+        fresh = pd.Series(new, dtype=bool)
+        if fresh.any():
+            store.bulk("items_insert", item_rows[fresh.to_numpy()])
+            fresh_links = links["item"].isin(set(item_rows["uid"][fresh.to_numpy()]))
+            store.bulk("items_file_under_new", links[fresh_links.to_numpy()])
+            links = links[~fresh_links.to_numpy()]
+        if not fresh.all():
+            old = item_rows[~fresh.to_numpy()].drop(columns=["first_seen", "last_seen"])
+            store.bulk("items_upsert", old, now=now)
+            store.bulk("items_file_under", links)
         # Durable "to place" marks, committed with the items, so a run killed before placing still places them.
-        store.run("categories_mark_dirty", uids=sorted(set(links["category"])))
+        categories = {node_uid(key, c) for i in items for c in i.category_codes}
+        store.run("categories_mark_dirty", uids=sorted(categories))
 
 
 def _default_reject_path(store: Store, key: str, path: Path) -> Path:

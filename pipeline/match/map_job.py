@@ -254,7 +254,10 @@ def _write(store: Store, plan: _Plan, settings: MapSettings, model: ScoringModel
         if rows:
             store.bulk("machine_edges_create", pd.DataFrame(rows))
         if plan.todo:
+            from pipeline.review.events import record_machine_edges  # the audit trail of every edge
+
             uids = [cats.uids[ci] for ci in plan.todo]
+            counts["history"] = record_machine_edges(store, rows, run_id, categories=uids)
             store.bulk("categories_mark_mapped", pd.DataFrame({"uid": uids, "tag": [plan.tags.get(u, "") for u in uids]}))
     counts["categories"] = len(plan.todo)
     log.info("mapped %s: %s", plan.source, counts)

@@ -36,12 +36,20 @@ class LadybugStore(Store):
             raise NotAStore(f"{path}: is a folder, not a graftwork store file")
         fresh = not p.exists()
         deadline = time.monotonic() + max(0.0, lock_timeout)
+        recovered = False
         while True:
             try:
                 self._db = ladybug.Database(str(p), read_only=read_only)
                 self._conn = ladybug.Connection(self._db)
                 break
             except RuntimeError as exc:
+                if read_only and "recovery is pending" in str(exc) and not recovered:
+                    # A job was killed before its log was checkpointed: a read-write open replays the committed
+                    # transactions (and drops the uncommitted ones); then the read-only open works.
+                    recovered = True
+                    with contextlib.suppress(RuntimeError):
+                        ladybug.Database(str(p)).close()
+                    continue
                 error = _translate_open_error(path, exc)
                 # Another job holds the store: wait for it up to the timeout, then give up with exit code 3.
                 if not isinstance(error, StoreLocked) or time.monotonic() >= deadline:
