@@ -20,8 +20,6 @@ def register(sub, common) -> dict:
                          parents=[common])
     ru.add_argument("--concept", metavar="CODE", help="start at this concept (default: the top level)")
     ru.add_argument("--depth", type=int, default=1, help="levels to show (below --concept, if given)")
-    ru.add_argument("--include-proposed", action="store_true",
-                    help="kept for compatibility: proposed edges place no items, so this changes nothing")
     _filters(ru)
     dd = qsub.add_parser("drilldown", help="the items on a concept, with their source category and edge",
                          parents=[common])
