@@ -32,7 +32,7 @@ class World:
 
     def __init__(self, root, jobs: JobStarter):
         self.root, self.jobs = root, jobs
-        self.files = generate_scenario(root / "data", seed=5, n_items=3000)
+        self.files = generate_scenario(root / "data", seed=5, n_items=1200)
         self.baselines: dict[str, tuple[dict, float]] = {}
         self.start_decisions: dict[str, list] = {}
         prep = root / "prep"

@@ -10,6 +10,7 @@ vocabulary (WordPiece ids of whole words roughly follow corpus frequency), and s
 from __future__ import annotations
 
 import argparse
+import hashlib
 import json
 import re
 import shutil
@@ -102,6 +103,26 @@ def sif_weights(n: int, a: float = SIF_A) -> np.ndarray:
     return (a / (a + p)).astype(np.float32)
 
 
+# sha256 of vocabulary entries that are names we keep out of this repository (the project's originality rules);
+# each is replaced by a placeholder that no text produces, so a word containing it is split into smaller pieces.
+BLOCKED_TOKEN_SHA256 = frozenset({
+    "8c9a2633c0a77f15e005c3340101dfa0cbe434055e7fd070725b16b665868f8d",
+    "cbc62794911ff31b2864ecd3dbbbee7ebcb7ea41c5a42e2cba377f3cfdb42811",
+})
+
+
+def scrub_vocabulary(tokenizer_json: str) -> str:
+    """The tokenizer file with blocked vocabulary entries renamed `[blocked<id>]` (ids and rows unchanged)."""
+    tok = json.loads(tokenizer_json)
+    vocab = tok["model"]["vocab"]
+    renamed = {}
+    for word, idx in vocab.items():
+        if hashlib.sha256(word.encode("utf-8")).hexdigest() in BLOCKED_TOKEN_SHA256:
+            renamed[word] = f"[blocked{idx}]"
+    tok["model"]["vocab"] = {renamed.get(w, w): i for w, i in vocab.items()}
+    return json.dumps(tok, ensure_ascii=False, separators=(",", ":"))
+
+
 def build(out_dir: Path, teacher_dir: Path, dim: int = 256, sif_a: float = SIF_A) -> dict:
     """Build the table into `out_dir` (replaced whole, never left half-written); returns the config."""
     from tokenizers import Tokenizer
@@ -154,7 +175,8 @@ def build(out_dir: Path, teacher_dir: Path, dim: int = 256, sif_a: float = SIF_A
     tmp = Path(tempfile.mkdtemp(prefix=f".{out_dir.name}.", dir=out_dir.parent))
     try:
         np.save(tmp / "vectors.npy", table.astype(np.float16))
-        shutil.copyfile(teacher_dir / "tokenizer.json", tmp / "tokenizer.json")
+        (tmp / "tokenizer.json").write_text(
+            scrub_vocabulary((teacher_dir / "tokenizer.json").read_text(encoding="utf-8")), encoding="utf-8")
         (tmp / "config.json").write_text(json.dumps(config, indent=2) + "\n")
         (tmp / "NOTICE.md").write_text(
             NOTICE.format(

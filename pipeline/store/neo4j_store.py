@@ -145,7 +145,7 @@ class Neo4jStore(Store):
         self._write_now(load_query(name, ENGINE), _plain(params))
 
     def bulk(self, name: str, rows: pd.DataFrame, **params) -> None:
-        if len(rows) == 0:
+        if (rows.num_rows if hasattr(rows, "num_rows") else len(rows)) == 0:
             return
         text = load_query(name, ENGINE)
         records = _records(rows)
@@ -380,7 +380,10 @@ def _plain(value):
     return value
 
 
-def _records(df: pd.DataFrame) -> list[dict]:
+def _records(df) -> list[dict]:
+    """Rows of a DataFrame (or, as the embedded engine also takes, a pyarrow Table) as plain dicts."""
+    if not isinstance(df, pd.DataFrame):  # pyarrow.Table
+        return [_plain(row) for row in df.to_pylist()]
     columns = [str(c) for c in df.columns]
     data = [[_plain(v) for v in df[c].tolist()] for c in df.columns]
     return [dict(zip(columns, row)) for row in zip(*data)]
