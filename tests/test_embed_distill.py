@@ -166,3 +166,26 @@ def test_cli_main_builds_and_reports(tmp_path, capsys):
     printed = capsys.readouterr().out
     assert '"dim": 4' in printed and "cos('sofa', 'couch')" in printed
     assert code in (0, 1)  # random teacher: the synonym checks may fail, the build must not
+
+
+def test_scrub_vocabulary_renames_blocked_entries_and_keeps_ids(monkeypatch):
+    import hashlib
+    import json
+
+    from pipeline.embed import distill
+
+    monkeypatch.setattr(distill, "BLOCKED_TOKEN_SHA256", frozenset({hashlib.sha256(b"zebra").hexdigest()}))
+    text = json.dumps({"model": {"vocab": {"[PAD]": 0, "zebra": 1, "lamp": 2}}})
+    out = json.loads(distill.scrub_vocabulary(text))["model"]["vocab"]
+    assert out == {"[PAD]": 0, "[blocked1]": 1, "lamp": 2}
+
+
+def test_the_shipped_tokenizer_holds_no_blocked_entry():
+    import hashlib
+    import json
+
+    from pipeline.embed import distill
+    from pipeline.embed.static import DEFAULT_MODEL, MODELS_DIR
+
+    vocab = json.loads((MODELS_DIR / DEFAULT_MODEL / "tokenizer.json").read_text(encoding="utf-8"))["model"]["vocab"]
+    assert not [w for w in vocab if hashlib.sha256(w.encode()).hexdigest() in distill.BLOCKED_TOKEN_SHA256]
