@@ -19,7 +19,7 @@ def built(tmp_path_factory, module_engine):
     tmp = tmp_path_factory.mktemp("e2e")
     files = generate_scenario(tmp / "data", seed=11, n_items=3000)
     store = module_engine.cli  # global options naming the store: --store PATH or --neo4j URI
-    run = lambda *a: main([*store, *a])  # noqa: E731
+    run = lambda *a: main([*store, *a])
     assert run("ingest", "reference", str(files.reference), "--scheme", "market") == 0
     for src in files.sources:
         cols = src["columns"]

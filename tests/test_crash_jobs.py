@@ -3,8 +3,9 @@
 edge with its content, the durable job marks, vectors, decisions), no duplicate nodes or edges, and every steward
 decision still there. SIGTERM and Ctrl-C (SIGINT) must stop with a message and leave only whole batches.
 
-The default suite runs one kill point per job plus a second on `run` (6 in all); `-m slow` runs 4 more per job
-and 4 on an incremental nightly run with decisions (26 more). Kill moments are drawn from a seeded generator as a
+The default suite runs one kill point per job plus a second on `ingest items` (6 in all); `-m slow` runs 4 more
+per job and 5 on an incremental nightly run (`run again`: after a first run, decisions, a new item drop and a
+relabelled category), 24 more. Kill moments are drawn from a seeded generator as a
 fraction (5%..90%) of the same job's uninterrupted duration measured in this session.
 """
 
@@ -199,8 +200,8 @@ def _only_whole_batches(partial: dict, expected: dict) -> None:
     assert set(partial["filed_under"]) <= set(expected["filed_under"])
 
 
-FAST = [("ingest items", 0), ("embed", 0), ("map", 0), ("place", 0), ("run", 0), ("run", 1)]
-SLOW = [(job, n) for job in JOBS for n in range(1, 5) if (job, n) not in FAST] + [("run again", 0)]
+FAST = [("ingest items", 0), ("ingest items", 1), ("embed", 0), ("map", 0), ("place", 0), ("run", 0)]
+SLOW = [(job, n) for job in JOBS for n in range(5) if (job, n) not in FAST][:25]
 
 
 @pytest.mark.parametrize("job, n", FAST, ids=[f"{j}-{n}" for j, n in FAST])
@@ -214,13 +215,18 @@ def test_more_kill_points(world, job, n):
     kill_and_rerun(world, job, n)
 
 
-@pytest.mark.parametrize("job, sig", [("ingest items", signal.SIGTERM), ("run", signal.SIGINT)],
-                         ids=["items-SIGTERM", "run-SIGINT"])
+@pytest.mark.parametrize("job, sig", [("ingest items", signal.SIGTERM), ("ingest items", signal.SIGINT)],
+                         ids=["items-SIGTERM", "items-SIGINT"])
 def test_sigterm_and_ctrl_c_stop_cleanly_with_a_message(world, job, sig):
     kill_and_rerun(world, job, 0, sig=sig)
 
 
 @pytest.mark.slow
-@pytest.mark.parametrize("job", ["embed", "map", "place", "run again"])
+@pytest.mark.parametrize("job", ["embed", "map", "place", "run", "run again"])
 def test_sigterm_on_every_other_job(world, job):
     kill_and_rerun(world, job, 0, sig=signal.SIGTERM)
+
+
+@pytest.mark.slow
+def test_ctrl_c_on_the_nightly_job(world):
+    kill_and_rerun(world, "run", 0, sig=signal.SIGINT)

@@ -11,7 +11,7 @@ import numpy as np
 import pandas as pd
 import pytest
 
-from pipeline.errors import NotAStore, StoreLocked
+from pipeline.errors import NotAStore
 from pipeline.store import open_store
 
 
@@ -73,10 +73,9 @@ def test_a_second_writer_process_gets_store_locked(tmp_path):
 
 def test_transaction_rolls_back_everything_on_error(engine):
     with engine.open() as s:
-        with pytest.raises(RuntimeError, match="boom"):
-            with s.transaction():
-                s.run("meta_set", key="a", value="1")
-                raise RuntimeError("boom")
+        with pytest.raises(RuntimeError, match="boom"), s.transaction():
+            s.run("meta_set", key="a", value="1")
+            raise RuntimeError("boom")
         assert s.scalar("meta_get", key="a") is None
 
 
@@ -118,12 +117,11 @@ def test_bulk_upsert_is_idempotent(engine):
 
 def test_nested_transactions_join_the_outer_one(engine):
     with engine.open() as s:
-        with pytest.raises(RuntimeError, match="late"):
+        with pytest.raises(RuntimeError, match="late"), s.transaction():
             with s.transaction():
-                with s.transaction():
-                    s.run("meta_set", key="inner", value="1")
-                assert s.scalar("meta_get", key="inner") == "1"  # visible inside the open transaction
-                raise RuntimeError("late")
+                s.run("meta_set", key="inner", value="1")
+            assert s.scalar("meta_get", key="inner") == "1"  # visible inside the open transaction
+            raise RuntimeError("late")
         assert s.scalar("meta_get", key="inner") is None
 
 

@@ -52,7 +52,7 @@ class Neo4jSettings:
     database: str | None = None   # None: the server's default database
 
     @classmethod
-    def from_uri(cls, uri: str, *, env: Mapping[str, str] | None = None) -> "Neo4jSettings":
+    def from_uri(cls, uri: str, *, env: Mapping[str, str] | None = None) -> Neo4jSettings:
         """Parse `--neo4j URI`; user/password/database from the environment (a user in the URI is accepted,
         a password in the URI too, but the environment wins so shells need not hold it in history)."""
         env = os.environ if env is None else env

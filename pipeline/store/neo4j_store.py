@@ -20,7 +20,7 @@ import hashlib
 import logging
 import math
 import time
-from collections.abc import Callable, Sequence
+from collections.abc import Callable
 from dataclasses import dataclass
 
 import numpy as np
@@ -389,4 +389,4 @@ def _records(df) -> list[dict]:
     return [dict(zip(columns, row)) for row in zip(*data)]
 
 
-__all__ = ["Neo4jStore", "wipe_database", "ReadOnlyStore", "ChangedDuringRetry", "StoreUnavailable"]
+__all__ = ["ChangedDuringRetry", "Neo4jStore", "ReadOnlyStore", "StoreUnavailable", "wipe_database"]
