@@ -56,33 +56,38 @@ def embed(store: Store, *, embedder: str = "static", **embedder_options) -> dict
                                   [h for _, _, h in chunk], vecs)
                 counts["embedded"] += len(chunk)
                 bar.update(len(chunk))
+    counts["members"] = counts["member_texts"] = 0
     for s in schemes:
         if s["role"] == "source":
-            counts["members"] = counts.get("members", 0) + _embed_members(store, s["key"], model)
+            members, titles = _embed_members(store, s["key"], model)
+            counts["members"] += members
+            counts["member_texts"] += titles
     store.run("meta_set", key="embedder_id", value=model.embedder_id)
     store.run("meta_set", key="embedder_name", value=embedder)
     log.info("embedded %(embedded)d texts, skipped %(skipped)d unchanged", counts)
     return counts
 
 
-def _embed_members(store: Store, scheme: str, model) -> int:
+def _embed_members(store: Store, scheme: str, model) -> tuple[int, int]:
     """The `members` signal: mean vector of (up to MEMBER_SAMPLE) member item titles per category, re-embedded
-    only when the sampled titles change."""
+    only when the sampled titles change. Returns (categories embedded, titles encoded)."""
     rows = store.frame("category_members", scheme=scheme)
     if rows.empty:
-        return 0
+        return 0, 0
     sample = rows.groupby("uid", sort=True)["title"].apply(lambda t: list(t[:MEMBER_SAMPLE]))
     uids = list(sample.index)
     stored = store.get_vectors("Category", "members", owners=uids)
     have = {o: (h, e) for o, h, e in stored.iter_rows()}
     hashes = {u: content_hash(sample[u]) for u in uids}
     todo = [u for u in uids if have.get(u) != (hashes[u], model.embedder_id)]
+    encoded = 0
     for start in range(0, len(todo), 2_000):
         chunk = todo[start:start + 2_000]
         titles = sorted({t for u in chunk for t in sample[u]})
         pos = {t: i for i, t in enumerate(titles)}
         vecs = np.asarray(model.encode(titles), dtype=np.float32)
+        encoded += len(titles)
         means = np.stack([vecs[[pos[t] for t in sample[u]]].mean(axis=0) for u in chunk])
         means /= np.maximum(np.linalg.norm(means, axis=1, keepdims=True), 1e-12)
         store.put_vectors("Category", "members", model.embedder_id, chunk, [hashes[u] for u in chunk], means)
-    return len(todo)
+    return len(todo), encoded

@@ -7,6 +7,7 @@ import logging
 from datetime import datetime, timezone
 from pathlib import Path
 
+import numpy as np
 import pandas as pd
 
 from pipeline.errors import NotFound
@@ -27,6 +28,7 @@ def ingest_items(
     batch_size: int = 50_000,
     force: bool = False,
     run_id: str = "",
+    precheck: bool = True,
     **options,
 ) -> dict:
     """Upsert items and their FILED_UNDER links. Malformed rows go to `reject_file` (default: beside the store,
@@ -53,6 +55,12 @@ def ingest_items(
 
         sep = source_options.get("separator", " > ")
         options["category_normaliser"] = lambda text: _safe_path_code(path_code, text, sep)
+    # A problem of the whole file (bad encoding, binary data, a broken Parquet page) found deep in it would stop
+    # the job after earlier batches were committed: read it once without writing first, so it is refused whole.
+    # (`precheck=False`: the caller has read the file through already, as the nightly job does.)
+    if precheck:
+        for _ in read_items(path, known_categories=known.__contains__, batch_size=batch_size, **options):
+            pass
     now = datetime.now(timezone.utc).isoformat(timespec="seconds")
     counts = {"rows_items": 0, "links": 0, "rejected": 0, "batches": 0}
     touched: set[str] = set()
@@ -90,15 +98,11 @@ def _safe_path_code(path_code, text: str, sep: str) -> str:
 
 def _write_batch(store: Store, key: str, items, now: str) -> None:
     uids = [node_uid(key, i.key) for i in items]
-    links = pd.DataFrame(
-        [(u, node_uid(key, c)) for u, i in zip(uids, items) for c in i.category_codes],
-        columns=["item", "category"],
-    )
     with store.transaction():
         # Items not in the store yet are appended with the engine's bulk copy (profiled: MERGE ran at about a
         # fifth of COPY's rate); known items and continuations of keys from earlier batches go through MERGE.
         known = set(store.frame("items_existing", uids=uids)["uid"]) if uids else set()
-        new = [u not in known for u in uids]
+        new = np.array([u not in known for u in uids], dtype=bool)
         item_rows = pd.DataFrame(
             {
                 "uid": uids,
@@ -110,19 +114,17 @@ def _write_batch(store: Store, key: str, items, now: str) -> None:
                 "last_seen": now,
             }
         )
-        fresh = pd.Series(new, dtype=bool)
-        if fresh.any():
-            store.bulk("items_insert", item_rows[fresh.to_numpy()])
-            fresh_links = links["item"].isin(set(item_rows["uid"][fresh.to_numpy()]))
-            store.bulk("items_file_under_new", links[fresh_links.to_numpy()])
-            links = links[~fresh_links.to_numpy()]
-        if not fresh.all():
-            old = item_rows[~fresh.to_numpy()].drop(columns=["first_seen", "last_seen"])
-            store.bulk("items_upsert", old, now=now)
-            store.bulk("items_file_under", links)
+        link_rows = [(u, node_uid(key, c), fresh) for u, i, fresh in zip(uids, items, new) for c in i.category_codes]
+        links = pd.DataFrame([r[:2] for r in link_rows], columns=["item", "category"])
+        link_new = np.array([r[2] for r in link_rows], dtype=bool)
+        if new.any():
+            store.bulk("items_insert", item_rows[new])
+            store.bulk("items_file_under_new", links[link_new])
+        if not new.all():
+            store.bulk("items_upsert", item_rows[~new].drop(columns=["first_seen", "last_seen"]), now=now)
+            store.bulk("items_file_under", links[~link_new])
         # Durable "to place" marks, committed with the items, so a run killed before placing still places them.
-        categories = {node_uid(key, c) for i in items for c in i.category_codes}
-        store.run("categories_mark_dirty", uids=sorted(categories))
+        store.run("categories_mark_dirty", uids=sorted(set(links["category"])))
 
 
 def _default_reject_path(store: Store, key: str, path: Path) -> Path:

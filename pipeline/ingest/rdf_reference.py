@@ -239,6 +239,11 @@ def _syntax_problem(exc: Exception, name: str, fmt: str, text: str | None) -> Pr
         )
     if isinstance(exc, json.JSONDecodeError):
         return Problem(f"JSON syntax error: {exc.msg}", file=name, line=exc.lineno, column=exc.colno)
+    if isinstance(exc, IndexError) and text is not None:
+        # rdflib's Turtle/N3 tokenizer runs off the end of a file cut in the middle of a statement
+        last = text.rstrip("\n").count("\n") + 1
+        return Problem(f"{fmt} syntax error: the file ends in the middle of a statement (truncated?)",
+                       file=name, line=last)
     line = _line_from_message(str(exc))
     if line is None and fmt in ("nt", "nquads") and text is not None:
         line = _first_bad_line(text, fmt)  # the line-based parsers do not say which line failed

@@ -11,8 +11,10 @@ from __future__ import annotations
 import json
 import logging
 import time
+from pathlib import Path
 from typing import TextIO
 
+from pipeline.errors import BadInput, Problem
 from pipeline.hashing import file_hash
 from pipeline.jobs.config import Config
 from pipeline.jobs.ledger import ledger
@@ -42,9 +44,15 @@ def run_pipeline(cfg: Config, *, full: bool = False, out: TextIO | None = None) 
             with timed("ingest"):
                 scheme = cfg.reference_scheme or None
                 ref_key = scheme or _default_key(cfg)
-                if full or _changed(store, ref_key, cfg.reference, {"format": cfg.reference_format,
-                                                                    "lang": cfg.reference_lang,
-                                                                    "root": cfg.reference_root or ""}):
+                ref_changed = full or _changed(store, ref_key, cfg.reference, {"format": cfg.reference_format,
+                                                                               "lang": cfg.reference_lang,
+                                                                               "root": cfg.reference_root or ""})
+                changed_sources = {src.key for src in cfg.sources if full or _changed(
+                    store, src.key, src.taxonomy, {"format": src.format, **_taxonomy_options(src)})}
+                new_items = {(src.key, f) for src in cfg.sources for f in src.item_files()
+                             if full or not _ingested(store, src.key, f)}
+                preflight(cfg, reference=ref_changed, sources=changed_sources, items=new_items)
+                if ref_changed:
                     stages["reference"] = ingest_reference(store, cfg.reference, fmt=cfg.reference_format,
                                                            scheme=ref_key, lang=cfg.reference_lang,
                                                            root=cfg.reference_root)
@@ -53,14 +61,14 @@ def run_pipeline(cfg: Config, *, full: bool = False, out: TextIO | None = None) 
                     stages["reference"] = {"scheme": ref_key, "skipped": True}
                 for src in cfg.sources:
                     opts = _taxonomy_options(src)
-                    if full or _changed(store, src.key, src.taxonomy, {"format": src.format, **opts}):
+                    if src.key in changed_sources:
                         stages[f"source {src.key}"] = ingest_source(store, src.key, src.taxonomy, fmt=src.format,
                                                                     **opts)
                         say(f"  source {src.key}: {_counts(stages[f'source {src.key}'])}")
                     item_runs = []
                     for f in src.item_files():
                         r = ingest_items(store, src.key, f, category_separator=src.category_separator or None,
-                                         force=full, run_id=run["run_id"], **_item_options(src))
+                                         force=full, run_id=run["run_id"], precheck=False, **_item_options(src))
                         r.pop("changed_categories", None)
                         item_runs.append(r)
                         if not r.get("skipped"):
@@ -99,6 +107,58 @@ def run_pipeline(cfg: Config, *, full: bool = False, out: TextIO | None = None) 
     return summary
 
 
+def preflight(cfg: Config, *, reference: bool = True, sources: set[str] | None = None,
+              items: set[tuple[str, Path]] | None = None) -> None:
+    """Read and check every input the run will take in (the reference and taxonomies that changed, every item
+    file) before anything is written, so a bad file stops the run with the store as it was, and every bad file
+    is named at once. Raises BadInput. Item rows that are merely bad (unknown category, empty title) are not
+    problems here: they go to the reject file as usual."""
+    from pipeline.ingest.hierarchy import check_hierarchy
+    from pipeline.ingest.items_reader import read_items
+    from pipeline.ingest.source_taxonomy import read_source_taxonomy
+
+    problems: list[Problem] = []
+
+    def attempt(check) -> None:
+        try:
+            check()
+        except BadInput as exc:
+            problems.extend(exc.problems)
+        except (FileNotFoundError, IsADirectoryError, PermissionError) as exc:
+            problems.append(Problem(exc.strerror or type(exc).__name__, file=str(exc.filename)))
+
+    def check_reference() -> None:
+        if cfg.reference_format == "rdf":
+            from pipeline.ingest.rdf_reference import read_reference_rdf
+
+            read_reference_rdf(cfg.reference, lang=cfg.reference_lang, root=cfg.reference_root)
+        else:
+            from pipeline.ingest.reference_job import _concept_rows
+            from pipeline.ingest.reference_tree import read_reference_tree
+
+            _concept_rows(read_reference_tree(cfg.reference), file=str(cfg.reference))
+
+    def check_source(src) -> None:
+        cats = read_source_taxonomy(src.taxonomy, fmt=src.format, **_taxonomy_options(src)).categories
+        check_hierarchy([(c.code, c.label, [c.parent_code] if c.parent_code else []) for c in cats],
+                        file=str(src.taxonomy), lines={c.code: c.line for c in cats if c.line is not None})
+
+    def check_items(src, path) -> None:
+        for _ in read_items(path, category_separator=src.category_separator or None, **_item_options(src)):
+            pass
+
+    if reference:
+        attempt(check_reference)
+    for src in cfg.sources:
+        if sources is None or src.key in sources:
+            attempt(lambda: check_source(src))
+        for f in src.item_files():
+            if items is None or (src.key, f) in items:
+                attempt(lambda: check_items(src, f))
+    if problems:
+        raise BadInput(problems)
+
+
 def _map(map_sources, store, reference, settings, run_id, only, keys):
     if only is None:
         return map_sources(store, sources=keys, reference=reference, settings=settings, run_id=run_id)
@@ -123,6 +183,14 @@ class _Timer:
 
     def __exit__(self, *exc):
         self.sink[self.name] = round(time.perf_counter() - self.start, 3)
+
+
+def _ingested(store, key: str, path: Path) -> bool:
+    """Whether this item file's content was taken in whole already (the mark `ingest_items` writes last)."""
+    try:
+        return bool(store.rows("ingested_file_get", key=f"{key}\x1f{file_hash(path)}"))
+    except OSError:
+        return False  # preflight names the missing or unreadable file
 
 
 def _changed(store, key, path, options: dict) -> bool:
