@@ -150,7 +150,7 @@ def timed_build(cfg, item_seconds: list[float], item_rows: list[int], profile: b
     return summary
 
 
-def _item_tables(cfg, src, path: Path) -> tuple[pa.Table, pa.Table]:
+def _item_tables(src, path: Path) -> tuple[pa.Table, pa.Table]:
     """The item and link rows of one file as the engine's bulk path takes them (uid-keyed), built with Arrow."""
     t = pacsv.read_csv(path, convert_options=pacsv.ConvertOptions(column_types={
         "item_key": pa.string(), "title": pa.string(), "category": pa.string(), "price": pa.string()}))
@@ -161,11 +161,9 @@ def _item_tables(cfg, src, path: Path) -> tuple[pa.Table, pa.Table]:
     items = pa.table({"uid": uid, "source": pa.array([src.key] * n), "item_key": t["item_key"],
                       "title": t["title"], "attributes": attrs, "first_seen": now, "last_seen": now})
     cats = pc.split_pattern(t["category"], "|")
-    lengths = pc.list_value_length(cats)
     flat = pc.list_flatten(cats)
     item_of = pc.take(uid, pc.list_parent_indices(cats))
     cat_uid = pc.binary_join_element_wise(pa.array([src.key] * len(flat)), flat, ":")
-    del lengths
     return items, pa.table({"item": item_of, "category": cat_uid})
 
 
@@ -180,7 +178,7 @@ def engine_bulk(cfg, store_path: Path) -> dict:
             ingest_source(store, src.key, src.taxonomy, fmt=src.format)
         for src in cfg.sources:
             for f in src.item_files():
-                items, links = _item_tables(cfg, src, f)
+                items, links = _item_tables(src, f)
                 for start in range(0, items.num_rows, 50_000):
                     part = items.slice(start, 50_000)
                     # links of this slice: the item uids of the slice

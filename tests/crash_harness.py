@@ -77,6 +77,17 @@ class Outcome:
         return self.signal is not None
 
 
+@dataclass
+class Started:
+    argv: list[str]
+    pid: int
+    log: Path
+    started: float
+
+    def output(self) -> str:
+        return self.log.read_text(errors="replace") if self.log.exists() else ""
+
+
 class JobStarter:
     """One warm process that forks a child per job. Use as a context manager; `close()` ends it."""
 
@@ -97,22 +108,30 @@ class JobStarter:
             raise RuntimeError("the job starter died")
         return json.loads(line)
 
-    def run(self, argv: list[str], *, cwd: Path, kill_after: float | None = None,
-            sig: int = signal.SIGKILL) -> Outcome:
-        """Run one job to its end, or send `sig` after `kill_after` seconds (if it is still running then)."""
+    def start(self, argv: list[str], *, cwd: Path) -> Started:
+        """Start a job and return at once; `wait(started)` collects it."""
         self._n += 1
         log = Path(cwd) / f"job-{self._n}.log"
         started = time.monotonic()
         pid = self._ask({"op": "start", "argv": [str(a) for a in argv], "cwd": str(cwd), "log": str(log)})["pid"]
+        return Started([str(a) for a in argv], pid, log, started)
+
+    def wait(self, job: Started, *, sent: int | None = None, sent_after: float | None = None) -> Outcome:
+        status = self._ask({"op": "wait", "pid": job.pid})
+        return Outcome(job.argv, status["code"], status["signal"], time.monotonic() - job.started,
+                       job.log.read_text(errors="replace") if job.log.exists() else "", sent, sent_after)
+
+    def run(self, argv: list[str], *, cwd: Path, kill_after: float | None = None,
+            sig: int = signal.SIGKILL) -> Outcome:
+        """Run one job to its end, or send `sig` after `kill_after` seconds (if it is still running then)."""
+        job = self.start(argv, cwd=cwd)
         sent = None
         if kill_after is not None:
-            time.sleep(max(0.0, kill_after - (time.monotonic() - started)))
+            time.sleep(max(0.0, kill_after - (time.monotonic() - job.started)))
             # The child is not reaped until "wait" below, so this pid is still ours (at worst a zombie).
-            os.kill(pid, sig)
+            os.kill(job.pid, sig)
             sent = sig
-        status = self._ask({"op": "wait", "pid": pid})
-        return Outcome([str(a) for a in argv], status["code"], status["signal"], time.monotonic() - started,
-                       log.read_text(errors="replace") if log.exists() else "", sent, kill_after)
+        return self.wait(job, sent=sent, sent_after=kill_after)
 
     def close(self) -> None:
         if self.proc.poll() is None:
@@ -123,7 +142,7 @@ class JobStarter:
                 self.proc.kill()
                 self.proc.wait()
 
-    def __enter__(self) -> "JobStarter":
+    def __enter__(self) -> JobStarter:
         return self
 
     def __exit__(self, *exc) -> None:

@@ -10,6 +10,7 @@ from pathlib import Path
 
 from crash_harness import copy_store
 from graph_snapshot import snapshot_of
+
 from pipeline.cli import main
 
 TTL = """@prefix skos: <http://www.w3.org/2004/02/skos/core#> .

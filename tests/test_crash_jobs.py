@@ -17,9 +17,9 @@ import signal
 
 import pandas as pd
 import pytest
-
 from crash_harness import JobStarter, copy_store
 from graph_snapshot import decisions, duplicates, first_difference, snapshot_of
+
 from pipeline.demo.scenario import generate_scenario
 from pipeline.store import open_store
 
@@ -67,7 +67,7 @@ class World:
         with open_store(cwd / STORE, read_only=True) as s:
             edges = s.frame("ranked_edges", source=src, reference="market")
         cats = sorted(set(edges["source_code"]))
-        pick = lambda code, rank: edges[(edges.source_code == code) & (edges["rank"] == rank)].iloc[0]  # noqa: E731
+        pick = lambda code, rank: edges[(edges.source_code == code) & (edges["rank"] == rank)].iloc[0]
         a, r, m = pick(cats[0], 2), pick(cats[1], 1), pick(cats[2], 1)
         other = edges[edges.concept_code != m.concept_code].iloc[-1].concept_code
         self._steps(cwd, [["accept", src, a.source_code, a.concept_code, "--by", "steward", "--note", "n1"],
@@ -186,9 +186,18 @@ def kill_and_rerun(world: World, job: str, n: int, *, sig: int = signal.SIGKILL)
     assert again.code == 0, again.log
     after = snapshot_of(d / STORE)
     assert duplicates(after) == {}
+    assert _placed_through_live_edges(expected) and _placed_through_live_edges(after)
     assert after == expected, first_difference(after, expected)
     assert decisions(after) == decisions(expected)
     return {"job": job, "at": round(first.sent_after, 2), "of": round(seconds, 2), "signal": sig}
+
+
+def _placed_through_live_edges(snap: dict) -> bool:
+    """Every placement goes through an accepted or auto edge of its category, with that edge's status."""
+    live = {(r[0], r[1]): r[5] for r in snap["maps_to"] if r[5] in ("accepted", "auto")}
+    wrong = [r for r in snap["placed_in"] if live.get((r[2], r[1])) != r[4]]
+    assert wrong == [], f"{len(wrong)} placements not through a live edge, e.g. {wrong[:2]}"
+    return True
 
 
 def _only_whole_batches(partial: dict, expected: dict) -> None:

@@ -7,7 +7,7 @@ import os
 from pathlib import Path
 from typing import TextIO
 
-from pipeline.jobs.config import load_config
+from pipeline.jobs.config import load_config, redact
 from pipeline.jobs.nightly import run_pipeline
 from pipeline.store import open_store
 
@@ -44,8 +44,9 @@ def run_demo(store_path: str | Path, *, data_dir: str | Path = "demo_data", n_it
         total = sum(summary["seconds"].values())
         say("\nItems per top-level reference concept (including descendants), by supplier:\n")
         say(table.to_string(index=False) if len(table) else "(nothing placed)")
-        where = f"--neo4j {neo4j}" if neo4j else f"--store {store_path}"
-        say(f"\nDone in {total:.1f} s. Store: {neo4j or store_path}. Try next:")
+        shown = redact(neo4j)  # never print a password given in the URI
+        where = f"--neo4j {shown}" if neo4j else f"--store {store_path}"
+        say(f"\nDone in {total:.1f} s. Store: {shown or store_path}. Try next:")
         if len(table):
             say(f"  graftwork {where} query rollup --concept {table['concept_code'].iloc[0]} --depth 1")
         say(f"  graftwork {where} export mappings --candidates 3 mappings.csv")

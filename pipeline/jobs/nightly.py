@@ -16,7 +16,7 @@ from typing import TextIO
 
 from pipeline.errors import BadInput, Problem
 from pipeline.hashing import file_hash
-from pipeline.jobs.config import Config
+from pipeline.jobs.config import Config, redact
 from pipeline.jobs.ledger import ledger
 from pipeline.store import open_store
 
@@ -33,7 +33,7 @@ def run_pipeline(cfg: Config, *, full: bool = False, out: TextIO | None = None) 
 
     say = (lambda msg: print(msg, file=out, flush=True)) if out else (lambda msg: None)
     inputs = {"reference": str(cfg.reference), "sources": {s.key: str(s.taxonomy) for s in cfg.sources}}
-    summary: dict = {"store": cfg.neo4j or cfg.store, "stages": {}, "seconds": {}}
+    summary: dict = {"store": redact(cfg.neo4j) or cfg.store, "stages": {}, "seconds": {}}
     with open_store(cfg.store, neo4j=cfg.neo4j, lock_timeout=cfg.lock_timeout) as store:
         with ledger(store, "run", {"config": str(cfg.path), "full": full, "inputs": inputs}) as run:
             stages, seconds = summary["stages"], summary["seconds"]
@@ -151,10 +151,10 @@ def preflight(cfg: Config, *, reference: bool = True, sources: set[str] | None =
         attempt(check_reference)
     for src in cfg.sources:
         if sources is None or src.key in sources:
-            attempt(lambda: check_source(src))
+            attempt(lambda src=src: check_source(src))
         for f in src.item_files():
             if items is None or (src.key, f) in items:
-                attempt(lambda: check_items(src, f))
+                attempt(lambda src=src, f=f: check_items(src, f))
     if problems:
         raise BadInput(problems)
 

@@ -30,6 +30,8 @@ class Evidence:
     concept_gloss: np.ndarray | None = None
     votes: dict[int, dict[int, float]] | None = None  # category -> concept -> share of shared items there
     signals: dict[str, tuple[np.ndarray, np.ndarray]] | None = None  # path/label/gloss: (category, concept) matrices
+    lexical_cache: dict | None = None      # (category, concept) -> lexical overlap, shared by the passes
+    word_weights: dict | None = None
 
 
 @dataclass
@@ -49,7 +51,10 @@ def decide(cats: HierarchyView, concepts: HierarchyView, ev: Evidence, model: Sc
     fixed_top = fixed_top or {}
     anc = concepts.ancestors()
     concept_labels = [[concepts.labels[j], *concepts.alt_labels[j]] for j in range(len(concepts.uids))]
-    weights = word_weights([*cats.labels, *concepts.labels])
+    if ev.lexical_cache is None:
+        ev.lexical_cache = {}
+        ev.word_weights = word_weights([*cats.labels, *concepts.labels])
+    lex_cache, weights = ev.lexical_cache, ev.word_weights
     c_depth = np.array(concepts.depth)
     region = [[j] if not concepts.is_leaf[j] or not concepts.parents[j] else list(concepts.parents[j])
               for j in range(len(concepts.uids))]
@@ -68,8 +73,12 @@ def decide(cats: HierarchyView, concepts: HierarchyView, ev: Evidence, model: Sc
         idx = np.array(cand)
         f = np.empty((len(cand), len(FEATURES)))
         f[:, T] = ev.r_text[idx] @ ev.q_text[ci]
-        f[:, LEX] = [max((lexical_similarity(cats.labels[ci], lab, weights) for lab in concept_labels[j] if lab),
-                         default=0.0) for j in cand]
+        for k, j in enumerate(cand):
+            # Lexical overlap does not change between passes: computed once per pair.
+            if (ci, j) not in lex_cache:
+                lex_cache[(ci, j)] = max((lexical_similarity(cats.labels[ci], lab, weights)
+                                          for lab in concept_labels[j] if lab), default=0.0)
+            f[k, LEX] = lex_cache[(ci, j)]
         if has_members and np.any(ev.members[ci]):
             f[:, MEM] = ev.concept_gloss[idx] @ ev.members[ci]
         else:
