@@ -33,6 +33,8 @@ from pathlib import Path
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
+from tests.oracles import tree_csv_to_skos  # noqa: E402  (the same conversion the oracle tests use)
+
 from pipeline.cli import build_parser
 from pipeline.cli import main as cli
 
@@ -52,29 +54,6 @@ SHOWN = ("top1", "hit@5", "mrr", "coverage", "auto_coverage", "auto_precision", 
 
 HEAD = {"auto_coverage": "auto cov", "auto_precision": "auto P", "auto_rank1_precision": "auto P rk1",
         "auto_f1": "auto F1"}
-
-
-def tree_to_skos(tree_csv: Path, out: Path, base: str) -> Path:
-    """A `code,label,parent_code` tree as SKOS Turtle (notation = code, prefLabel@en, broader)."""
-    from rdflib import Graph, Literal, Namespace, URIRef
-    from rdflib.namespace import RDF, SKOS
-
-    ns = Namespace(base)
-    g = Graph()
-    g.bind("skos", SKOS)
-    scheme = URIRef(base.rstrip("/#"))
-    g.add((scheme, RDF.type, SKOS.ConceptScheme))
-    with open(tree_csv, newline="", encoding="utf-8") as fh:
-        for row in csv.DictReader(fh):
-            c = ns[row["code"]]
-            g.add((c, RDF.type, SKOS.Concept))
-            g.add((c, SKOS.inScheme, scheme))
-            g.add((c, SKOS.notation, Literal(row["code"])))
-            g.add((c, SKOS.prefLabel, Literal(row["label"], lang="en")))
-            if row["parent_code"]:
-                g.add((c, SKOS.broader, ns[row["parent_code"]]))
-    g.serialize(out, format="turtle")
-    return out
 
 
 def graftwork(store: Path, *args: str) -> tuple[dict | None, float]:
@@ -140,7 +119,7 @@ def run_table(folder: Path, work: Path, *, embedder: str, ablation: bool, learn_
     store = work / "bench.lbug"
     times = {}
     source, reference = scheme_keys(folder)
-    ttl = tree_to_skos(folder / "reference_tree.csv", work / "reference.ttl", f"http://example.org/{reference}/")
+    ttl = tree_csv_to_skos(folder / "reference_tree.csv", work / "reference.ttl", f"http://example.org/{reference}/")
     _, times["ingest_reference"] = graftwork(store, "ingest", "reference", str(ttl), "--scheme", reference)
     _, times["ingest_source"] = graftwork(store, "ingest", "source", source, str(folder / "source_tree.csv"))
     _, times["embed"] = graftwork(store, "embed", "--embedder", embedder)
