@@ -3,7 +3,6 @@
 All data is the invented demo scenario, copied into tmp_path so tests can change it.
 """
 
-import json
 import shutil
 import signal
 import subprocess
@@ -19,6 +18,7 @@ from pipeline.errors import BadInput
 from pipeline.jobs.config import load_config
 from pipeline.jobs.demo import demo_config
 from pipeline.jobs.nightly import run_pipeline
+from pipeline.review.decisions import Decision, decide
 from pipeline.store import open_store
 
 
@@ -100,17 +100,13 @@ def test_a_reference_upgrade_is_reported_and_decisions_on_removed_concepts_go_st
     with open_store(tmp / "s.lbug") as s:
         edges = s.frame("ranked_edges", source=files.sources[0]["key"], reference="market")
         top = edges[edges["rank"] == 1].iloc[0]
-        s.run("test_accept_edge", source=files.sources[0]["key"], code=top.source_code, concept=top.concept_code)
-    ttl = files.reference.read_text()
-    # Remove the accepted concept from the reference: every triple whose subject is it, and links to it.
-    lines = ttl.splitlines()
+        decide(s, Decision("accept", files.sources[0]["key"], top.source_code, top.concept_code, by="test"))
+    # Remove the accepted concept from the reference file, with every statement block that names it (its
+    # children's too, so no parent dangles).
+    blocks = files.reference.read_text().split("\n\n")
     marker = f'skos:notation "{top.concept_code}"'
-    kept, drop_block = [], False
-    blocks = "\n".join(lines).split("\n\n")
-    kept = [b for b in blocks if marker not in b]
     removed_iri = next(b for b in blocks if marker in b).split()[0]
-    kept = [b for b in kept if removed_iri not in b or b.split()[0] == removed_iri]
-    files.reference.write_text("\n\n".join(kept) + "\n")
+    files.reference.write_text("\n\n".join(b for b in blocks if removed_iri not in b) + "\n")
     summary = run_pipeline(load_config(cfg_path))
     upgrade = summary["stages"]["reference"]["upgrade"]
     assert upgrade["removed"] >= 1
@@ -129,9 +125,14 @@ def test_a_run_killed_half_way_then_rerun_matches_an_uninterrupted_run(setup, tm
     expected = _export(tmp / "ref.lbug", tmp / "ref.csv")
     proc = subprocess.Popen([sys.executable, "-m", "pipeline.cli", "--config", str(cfg_path), "run"],
                             stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
-    time.sleep(3.0)  # mid-way through ingest or embed on this data (the whole run takes several seconds)
+    # Kill once the job is writing (the store file exists), not while Python is still importing.
+    deadline = time.monotonic() + 120
+    while not (tmp / "s.lbug").exists() and proc.poll() is None and time.monotonic() < deadline:
+        time.sleep(0.05)
+    time.sleep(1.0)
     proc.send_signal(signal.SIGKILL)
     proc.wait()
+    assert proc.returncode == -signal.SIGKILL, "the run finished before the kill: the test proved nothing"
     assert main(["--config", str(cfg_path), "run"]) == 0
     assert _export(tmp / "s.lbug", tmp / "after.csv") == expected
 

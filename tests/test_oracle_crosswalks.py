@@ -10,8 +10,6 @@ Tables (see each folder's SOURCE.md, read from ../shared/oracles/):
 The thresholds below are safe floors; the measured figures go to the benchmark report, not here.
 """
 
-import pytest
-
 from pipeline.cli import main
 from pipeline.match.evaluate import evaluate
 from pipeline.store import open_store

@@ -25,7 +25,7 @@ from pipeline.exchange.crosswalk_rows import Crosswalk, CrosswalkRow, read_cross
 from pipeline.exchange.iris import SKOS_NS, SchemeNamespaces, expand_curie, prefix_name
 from pipeline.exchange.sssom import SKOS_MAPPING_PROPERTIES
 from pipeline.ingest.graph_writer import node_uid
-from pipeline.match.map_job import _pick_reference
+from pipeline.schemes import choose_reference
 from pipeline.store import Store
 
 
@@ -39,7 +39,7 @@ def import_mappings(store: Store, path: str | Path, *, fmt: str | None = None, b
     the export (`--prefix`), for SSSOM files whose ids were minted in another namespace.
     """
     schemes = store.rows("schemes_list")
-    reference = _pick_reference(schemes, reference)
+    reference = choose_reference(schemes, reference)
     sources = [s["key"] for s in schemes if s["role"] == "source"]
     if source and source not in sources:
         raise NotFound(f"unknown source {source!r}; known: {', '.join(sources) or 'none'}")
@@ -85,8 +85,9 @@ def import_mappings(store: Store, path: str | Path, *, fmt: str | None = None, b
         if writes:
             store.run("import_decisions_create", rows=writes)
         if cats:
-            placed = place(store, categories=cats, reference=reference)
-            summary["items_placed"] = placed["items_placed"]
+            place(store, categories=cats, reference=reference)
+            placed = store.frame("count_placed", reference=reference)
+            summary["items_placed"] = int(placed["items"].iloc[0]) if len(placed) else 0
     return summary
 
 

@@ -46,7 +46,7 @@ def ingest_items(
         seen = store.rows("ingested_file_get", key=seen_key)
         if seen:
             return {"source": key, "file": str(path), "skipped": True, "reason": "same content already ingested",
-                    "rows_items": 0, "links": 0, "rejected": 0, "batches": 0, "reject_file": None, "changed_categories": []}
+                    "rows_items": 0, "links": 0, "rejected": 0, "batches": 0, "reject_file": None}
     known = set(store.frame("category_codes", scheme=key)["code"])
     source_options = json.loads(scheme[0].get("reader_options") or "{}")
     if source_options.get("format") == "paths" and "category_normaliser" not in options:
@@ -63,7 +63,6 @@ def ingest_items(
             pass
     now = datetime.now(timezone.utc).isoformat(timespec="seconds")
     counts = {"rows_items": 0, "links": 0, "rejected": 0, "batches": 0}
-    touched: set[str] = set()
     rejects = []
     with progress(desc=f"items {key}", unit="items") as bar:
         for batch in read_items(path, known_categories=known.__contains__, batch_size=batch_size, **options):
@@ -73,7 +72,6 @@ def ingest_items(
                 _write_batch(store, key, batch.items, now)
                 counts["rows_items"] += len(batch.items)
                 counts["links"] += sum(len(i.category_codes) for i in batch.items)
-                touched.update(c for i in batch.items for c in i.category_codes)
             counts["batches"] += 1
             bar.update(len(batch.items) + len(batch.rejects))
     reject_path = None
@@ -85,8 +83,7 @@ def ingest_items(
     store.run("ingested_file_record", key=seen_key, source=key, file=str(path), content_hash=digest,
               rows=counts["rows_items"], rejected=counts["rejected"], run_id=run_id, ingested_at=now)
     return {"source": key, "file": str(path), "skipped": False, **counts,
-            "reject_file": str(reject_path) if reject_path else None,
-            "changed_categories": sorted(node_uid(key, c) for c in touched)}
+            "reject_file": str(reject_path) if reject_path else None}
 
 
 def _safe_path_code(path_code, text: str, sep: str) -> str:

@@ -69,7 +69,6 @@ def run_pipeline(cfg: Config, *, full: bool = False, out: TextIO | None = None) 
                     for f in src.item_files():
                         r = ingest_items(store, src.key, f, category_separator=src.category_separator or None,
                                          force=full, run_id=run["run_id"], precheck=False, **_item_options(src))
-                        r.pop("changed_categories", None)
                         item_runs.append(r)
                         if not r.get("skipped"):
                             say(f"  items {src.key} {f.name}: {r['rows_items']} rows, {r['rejected']} rejected")
@@ -86,8 +85,7 @@ def run_pipeline(cfg: Config, *, full: bool = False, out: TextIO | None = None) 
                 if not full:
                     only = {}
                     for src in cfg.sources:
-                        need = categories_to_map(store, src.key, reference)
-                        total = len(store.frame("categories_pending", scheme=src.key))
+                        need, total = categories_to_map(store, src.key, reference)
                         # Everything pending (first run, new reference or embedder): a full map also learns
                         # the depth prior afresh; otherwise map the changed categories alone.
                         only[src.key] = need if len(need) < total else None

@@ -34,7 +34,7 @@ from pathlib import Path
 import pandas as pd
 
 from pipeline.errors import BadInput, NotFound, Problem
-from pipeline.match.map_job import _pick_reference
+from pipeline.schemes import choose_reference
 from pipeline.store import Store
 
 MACHINE = ("auto", "proposed")
@@ -301,7 +301,7 @@ class Gathered:
 
 def gather(store: Store, source: str, answer_key: dict[str, set[str]], *, reference: str | None = None) -> Gathered:
     schemes = store.rows("schemes_list")
-    reference = _pick_reference(schemes, reference)
+    reference = choose_reference(schemes, reference)
     sources = [s["key"] for s in schemes if s["role"] == "source"]
     if source not in sources:
         raise NotFound(f"unknown source {source!r}; known: {', '.join(sources) or 'none'}")

@@ -14,7 +14,8 @@ import numpy as np
 
 from pipeline.errors import BadInput, Problem
 from pipeline.match.features import FEATURES, ScoringModel
-from pipeline.match.map_job import MODEL_KEY, MapSettings, _load_side, _pick_reference, _plan, load_model
+from pipeline.match.map_job import MODEL_KEY, MapSettings, _load_side, _plan, load_model
+from pipeline.schemes import choose_reference
 from pipeline.store import Store
 
 log = logging.getLogger(__name__)
@@ -28,7 +29,7 @@ def learn_model(store: Store, labels: dict[str, dict[str, set[str]]], *, referen
     categories reach that precision (on these same labels: an optimistic estimate; say so to the user)."""
     from sklearn.linear_model import LogisticRegression
 
-    reference = _pick_reference(store.rows("schemes_list"), reference)
+    reference = choose_reference(store.rows("schemes_list"), reference)
     concept_side = _load_side(store, "Concept", reference)
     model = load_model(store)
     xs, ys, tops = [], [], []
@@ -148,7 +149,7 @@ def labels_from_answer_key(path, *, source: str | None) -> dict[str, dict[str, s
 
 def labels_from_decisions(store: Store, sources: list[str], reference: str | None = None):
     """Stewards' accepted edges as right answers (rejected ones simply never count as right)."""
-    reference = _pick_reference(store.rows("schemes_list"), reference)
+    reference = choose_reference(store.rows("schemes_list"), reference)
     out: dict[str, dict[str, set[str]]] = {}
     for source in sources:
         df = store.frame("decided_codes", source=source, reference=reference)

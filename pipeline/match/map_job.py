@@ -25,6 +25,7 @@ from pipeline.match.features import FEATURES, ScoringModel
 from pipeline.match.hierarchy_view import HierarchyView
 from pipeline.match.match_type import match_type
 from pipeline.hashing import content_hash as hash_text
+from pipeline.schemes import choose_reference
 from pipeline.store import Store
 
 log = logging.getLogger(__name__)
@@ -59,7 +60,7 @@ def map_sources(store: Store, *, sources: list[str] | None = None, reference: st
         raise BadInput(Problem(f"unknown feature(s) {sorted(unknown_features)}; known: {', '.join(FEATURES)}",
                                field="--without"))
     schemes = store.rows("schemes_list")
-    reference = _pick_reference(schemes, reference)
+    reference = choose_reference(schemes, reference)
     all_sources = [s["key"] for s in schemes if s["role"] == "source"]
     if sources:
         unknown = [s for s in sources if s not in all_sources]
@@ -91,41 +92,30 @@ def map_sources(store: Store, *, sources: list[str] | None = None, reference: st
     return summary
 
 
-def mapping_tags(store: Store, source: str, reference: str) -> dict[str, str]:
-    """What each category's edges would be made from now: its content, the embedder and the reference version.
-    A category whose stored `mapped_with` differs needs mapping (this survives a run killed half-way)."""
+def mapping_tags(store: Store, source: str, reference: str, pending: pd.DataFrame | None = None) -> dict[str, str]:
+    """What each category's edges would be made from now: its content, the embedder, the reference version and the
+    scoring model. A category whose stored `mapped_with` differs needs mapping (this survives a run killed
+    half-way). `pending`: the `categories_pending` rows, when the caller has them already."""
     ref = store.rows("scheme_get", key=reference)
     ref_hash = ref[0]["content_hash"] if ref else ""
     embedder = store.scalar("meta_get", key="embedder_id") or ""
     model = store.scalar("meta_get", key=MODEL_KEY) or ""
-    pending = store.frame("categories_pending", scheme=source)
+    if pending is None:
+        pending = store.frame("categories_pending", scheme=source)
     suffix = f"|{embedder}|{ref_hash}|{hash_text(model)}"
     return {u: f"{h}{suffix}" for u, h in zip(pending["uid"], pending["content_hash"])}
 
 
-def categories_to_map(store: Store, source: str, reference: str) -> list[str]:
-    tags = mapping_tags(store, source, reference)
+def categories_to_map(store: Store, source: str, reference: str) -> tuple[list[str], int]:
+    """Live categories of `source` whose edges are out of date, and how many live categories it has."""
     pending = store.frame("categories_pending", scheme=source)
-    return [u for u, m in zip(pending["uid"], pending["mapped_with"]) if tags.get(u) != m]
+    tags = mapping_tags(store, source, reference, pending)
+    return [u for u, m in zip(pending["uid"], pending["mapped_with"]) if tags.get(u) != m], len(pending)
 
 
 def load_model(store: Store) -> ScoringModel:
     stored = store.scalar("meta_get", key=MODEL_KEY)
     return ScoringModel.from_json(json.loads(stored)) if stored else ScoringModel()  # "" = forgotten
-
-
-def _pick_reference(schemes: list[dict], reference: str | None) -> str:
-    refs = [s["key"] for s in schemes if s["role"] == "reference"]
-    if reference:
-        if reference not in refs:
-            raise NotFound(f"no reference scheme {reference!r}; known: {', '.join(refs) or 'none'}")
-        return reference
-    if not refs:
-        raise NotFound("no reference hierarchy in the store; ingest one with `graftwork ingest reference`")
-    if len(refs) > 1:
-        raise BadInput(Problem(f"several reference schemes ({', '.join(refs)}); choose one with --reference",
-                               field="--reference"))
-    return refs[0]
 
 
 def _load_side(store: Store, kind: str, scheme: str):

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from pipeline.errors import NotFound
-from pipeline.match.map_job import _pick_reference
+from pipeline.schemes import choose_reference
 from pipeline.store import Store
 
 BLOCK = 2_000  # categories per transaction: bounded memory, and a kill loses at most one block of work
@@ -15,7 +15,8 @@ def place(store: Store, *, sources: list[str] | None = None, categories: list[st
     with `pending_only`, only the categories marked as waiting (new items, new edges).
     Each block of categories is cleared, placed and unmarked in one transaction, so a re-run converges."""
     schemes = store.rows("schemes_list")
-    reference = _pick_reference(schemes, reference)
+    reference = choose_reference(schemes, reference)
+    whole = categories is None
     if categories is None:
         known = [s["key"] for s in schemes if s["role"] == "source"]
         chosen = sources or known
@@ -35,7 +36,10 @@ def place(store: Store, *, sources: list[str] | None = None, categories: list[st
             store.run("placements_clear", uids=block)
             store.run("placements_create", uids=block, reference=reference)
             store.run("categories_mark_placed", uids=block)
-    placed = store.frame("count_placed", reference=reference)
-    return {"reference": reference, "categories": len(categories),
-            "placements": int(placed["placements"].iloc[0]) if len(placed) else 0,
-            "items_placed": int(placed["items"].iloc[0]) if len(placed) else 0}
+    summary = {"reference": reference, "categories": len(categories)}
+    if whole:
+        # Store-wide totals cost a scan of every placement: only for whole-source runs, not per decision.
+        placed = store.frame("count_placed", reference=reference)
+        summary["placements"] = int(placed["placements"].iloc[0]) if len(placed) else 0
+        summary["items_placed"] = int(placed["items"].iloc[0]) if len(placed) else 0
+    return summary

@@ -12,7 +12,7 @@ import json
 from dataclasses import dataclass, field
 
 from pipeline.errors import BadInput, NotFound, Problem
-from pipeline.match.map_job import _pick_reference
+from pipeline.schemes import choose_reference
 from pipeline.store import Store
 
 LIVE = ("accepted", "auto")
@@ -69,4 +69,4 @@ def parse_attribute_filters(pairs: list[str] | None) -> dict[str, str]:
 
 def pick_reference(store: Store, reference: str | None) -> str:
     """The reference scheme key: the one given (checked) or the only one in the store."""
-    return _pick_reference(store.rows("schemes_list"), reference)
+    return choose_reference(store.rows("schemes_list"), reference)

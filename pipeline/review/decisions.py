@@ -25,6 +25,7 @@ from pipeline.ingest.graph_writer import node_uid
 from pipeline.review.events import event_row, now_iso, write_events
 from pipeline.review.search import exact_label_matches, search_concepts
 from pipeline.review.tree import ConceptTree
+from pipeline.schemes import pick_reference  # noqa: F401 (used here and re-exported)
 from pipeline.store import Store
 
 ACTIONS = ("accept", "reject", "remap", "reopen")
@@ -70,20 +71,6 @@ def who(by: str | None = None) -> str:
         return getpass.getuser()
     except (KeyError, OSError):
         return "unknown"
-
-
-def pick_reference(store: Store, reference: str | None = None) -> str:
-    refs = [s["key"] for s in store.rows("schemes_list") if s["role"] == "reference"]
-    if reference:
-        if reference not in refs:
-            raise NotFound(f"no reference scheme {reference!r}; known: {', '.join(refs) or 'none'}")
-        return reference
-    if not refs:
-        raise NotFound("no reference hierarchy in the store; ingest one with `graftwork ingest reference`")
-    if len(refs) > 1:
-        raise BadInput(Problem(f"several reference schemes ({', '.join(refs)}); choose one with --reference",
-                               field="--reference"))
-    return refs[0]
 
 
 def decide(store: Store, decision: Decision, *, reference: str | None = None, place_items: bool = True) -> dict:

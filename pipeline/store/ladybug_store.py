@@ -6,7 +6,6 @@ import contextlib
 import logging
 import re
 import time
-from collections.abc import Sequence
 from pathlib import Path
 
 import numpy as np
