@@ -141,6 +141,9 @@ def _build():
     mp.add_argument("--target-precision", type=float, metavar="P",
                     help="with --learn: pick the auto threshold that reaches this precision on the labels")
     mp.add_argument("--forget-model", action="store_true", help="go back to the default weights and threshold")
+    mp.add_argument("--index-above", type=int, default=20000, metavar="N",
+                    help="on Neo4j 5.23+, find candidates through the vector index when the reference has more "
+                         "than N concepts (default 20000)")
     mp.add_argument("--multi-margin", type=float, default=0.0,
                     help="allow several auto edges per category (1:n) when within this probability of the best")
 
@@ -275,7 +278,7 @@ def _write_command(store, args, run_id: str):
         from pipeline.match.map_job import MapSettings, map_sources
 
         settings = MapSettings(candidates=args.candidates, disabled=frozenset(args.without),
-                               multi_margin=args.multi_margin)
+                               multi_margin=args.multi_margin, index_above=args.index_above)
         if args.auto_threshold is not None:
             settings.auto_threshold = args.auto_threshold
         if args.floor is not None:

@@ -109,7 +109,7 @@ def test_a_locked_store_exits_3(ladybug_store):
         out = subprocess.run([sys.executable, "-m", "pipeline.cli", *ladybug_store, "map"],
                              capture_output=True, text=True, timeout=120)
         assert out.returncode == 3, out.stderr
-        assert "another process" in out.stderr
+        assert "held for writing by pid" in out.stderr  # names the job that holds it
     finally:
         holder.kill()
         holder.wait()

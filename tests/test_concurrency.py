@@ -62,7 +62,7 @@ def test_a_second_run_exits_3_and_a_waiting_one_finds_nothing_to_do(setting):
     first = jobs.wait(a)
     second = jobs.wait(waiter)
     assert refused.code == 3, refused.log
-    assert "another process holds this store" in refused.log
+    assert "held for writing by pid" in refused.log
     assert first.code == 0, first.log
     assert second.code == 0, second.log
     assert waiter.started + second.seconds >= a.started + first.seconds  # it ended after the first run ended

@@ -58,4 +58,4 @@ def test_bad_decisions_exit_2_with_one_line(store, capsys):
 
 def test_pending_is_empty_on_a_quiet_store(store, capsys):
     assert main(["--store", store, "--json", "review", "pending"]) == 0
-    assert json.loads(capsys.readouterr().out) == {"pending": []}
+    assert json.loads(capsys.readouterr().out) == {"pending": [], "refused_at_replay": []}

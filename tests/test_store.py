@@ -5,6 +5,7 @@ about the embedded engine's single file and stay LadybugDB-only.
 """
 
 import subprocess
+import time
 import sys
 
 import numpy as np
@@ -69,6 +70,59 @@ def test_a_second_writer_process_gets_store_locked(tmp_path):
         )
         out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=60)
     assert "LOCKED 3" in out.stdout, out.stderr
+
+
+def _in_other_process(code: str, timeout: float = 120) -> subprocess.CompletedProcess:
+    return subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=timeout)
+
+
+_READ_ONCE = (
+    "from pipeline.store import open_store\n"
+    "from pipeline.errors import StoreLocked\n"
+    "try:\n"
+    "    with open_store({path!r}, read_only=True) as s:\n"
+    "        print('READ', s.scalar('meta_get', key='k'))\n"
+    "except StoreLocked as e:\n"
+    "    print('LOCKED', e.exit_code, e)\n"
+)
+
+
+def test_a_reader_is_refused_while_another_process_writes(tmp_path):
+    # Regression: LadybugDB let a read-only open run beside a writer in another process, and the reader saw a
+    # half-written log ("Checksum verification failed, the WAL file is corrupted", duplicated primary keys).
+    path = tmp_path / "s.lbug"
+    with open_store(path) as s:
+        s.run("meta_set", key="k", value="v")
+    holder = subprocess.Popen([sys.executable, "-c", "import time; from pipeline.store import open_store; "
+                               f"s = open_store({str(path)!r}); print('ready', flush=True); time.sleep(60)"],
+                              stdout=subprocess.PIPE, text=True)
+    try:
+        assert holder.stdout.readline().strip() == "ready"
+        out = _in_other_process(_READ_ONCE.format(path=str(path)))
+        assert "LOCKED 3" in out.stdout, out.stdout + out.stderr
+        assert f"pid {holder.pid}" in out.stdout  # it names the job that holds the store
+    finally:
+        holder.kill()
+        holder.wait()
+    out = _in_other_process(_READ_ONCE.format(path=str(path)))  # the writer is gone (killed): reads work again
+    assert "READ v" in out.stdout, out.stdout + out.stderr
+
+
+def test_readers_share_the_store_and_a_writer_waits_for_them(tmp_path):
+    path = tmp_path / "s.lbug"
+    with open_store(path) as s:
+        s.run("meta_set", key="k", value="v")
+    with open_store(path, read_only=True):
+        out = _in_other_process(_READ_ONCE.format(path=str(path)))
+        assert "READ v" in out.stdout, out.stdout + out.stderr  # two readers at once
+        writer = subprocess.Popen([sys.executable, "-c", "from pipeline.store import open_store; "
+                                   f"s = open_store({str(path)!r}); s.run('meta_set', key='k', value='w'); "
+                                   "s.close(); print('WROTE')"], stdout=subprocess.PIPE, text=True)
+        time.sleep(2)
+        assert writer.poll() is None  # a writer waits while a reader has the store open ...
+    assert writer.communicate(timeout=60)[0].strip() == "WROTE"  # ... and writes once it is closed
+    with open_store(path, read_only=True) as s:
+        assert s.scalar("meta_get", key="k") == "w"
 
 
 def test_transaction_rolls_back_everything_on_error(engine):

@@ -51,6 +51,7 @@ class Config:
     candidates: int = 5
     auto_threshold: float | None = None
     floor: float | None = None
+    index_above: int = 20000
     sources: list[SourceConfig] = field(default_factory=list)
 
 
@@ -126,6 +127,9 @@ def parse_config(raw: dict, path: Path) -> Config:
         bad("map.candidates", "must be at least 1")
     cfg.auto_threshold = get(mp, "auto_threshold", float, "map")
     cfg.floor = get(mp, "floor", float, "map")
+    cfg.index_above = get(mp, "index_above", int, "map", 20000)
+    if cfg.index_above < 0:
+        bad("map.index_above", "must be 0 or more concepts")
     for name in ("auto_threshold", "floor"):
         value = getattr(cfg, name)
         if value is not None and not 0 <= value <= 1:

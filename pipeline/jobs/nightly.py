@@ -77,7 +77,8 @@ def run_pipeline(cfg: Config, *, full: bool = False, out: TextIO | None = None) 
                 stages["embed"] = embed(store, embedder=cfg.embedder)
                 say(f"  embed: {stages['embed']['embedded']} texts embedded, {stages['embed']['skipped']} unchanged")
             with timed("map"):
-                settings = MapSettings(candidates=cfg.candidates, auto_threshold=cfg.auto_threshold)
+                settings = MapSettings(candidates=cfg.candidates, auto_threshold=cfg.auto_threshold,
+                                       index_above=cfg.index_above)
                 if cfg.floor is not None:
                     settings.floor = cfg.floor
                 reference = ref_key

@@ -20,6 +20,7 @@ import pandas as pd
 
 from pipeline.errors import BadInput, NotFound, Problem
 from pipeline.match.candidates import stack_signals, top_k
+from pipeline.match.pools import text_pools
 from pipeline.match.decide import Evidence, Ranked, decide, learn_depth_prior
 from pipeline.match.features import FEATURES, ScoringModel
 from pipeline.match.hierarchy_view import HierarchyView
@@ -47,6 +48,7 @@ class MapSettings:
     multi_margin: float = 0.0      # > 0 allows 1:n: a second auto edge this close to the first (off by default)
     depth_sample: float = 0.5      # share of first-pass choices the depth prior is learned from
     disabled: frozenset[str] = field(default_factory=frozenset)  # features switched off (ablation)
+    index_above: int | None = 20000  # references larger than this use the store's vector index (if any) for pools
 
 
 def map_sources(store: Store, *, sources: list[str] | None = None, reference: str | None = None,
@@ -264,11 +266,10 @@ def _fit_prior(prior: np.ndarray, cats: HierarchyView, concepts: HierarchyView) 
 
 def _evidence_for(store, source, reference, cats, concepts, qmats, cmats, settings, todo, kpos, cpos):
     q, r = stack_signals([(qmats[a], cmats[b], w) for a, b, w in DEFAULT_SIGNALS])
-    pools: list[list[int]] = [[] for _ in cats.uids]
-    if todo:
-        idx, _ = top_k(q[todo], r, settings.pool)
-        for row, ci in enumerate(todo):
-            pools[ci] = [int(j) for j in idx[row]]
+    pools, how = text_pools(store, q, r, todo, settings.pool, concept_uids=concepts.uids,
+                            signal_queries={b: qmats[a] for a, b, _ in DEFAULT_SIGNALS},
+                            index_above=settings.index_above)
+    log.info("candidate pools of %s categories: %s search", len(todo), how)
     members = store.get_vectors("Category", "members", owners=cats.uids)
     mem_matrix = None
     if len(members) and "members" not in settings.disabled:

@@ -114,7 +114,9 @@ def run(args, ctx):
         from pipeline.review.gate import DecisionGate
 
         gate = DecisionGate(store_path(args))
-        return gate.flush() if args.apply else {"pending": gate.pending()}
+        out = gate.flush() if args.apply else {"pending": gate.pending()}
+        out["refused_at_replay"] = gate.failed()
+        return out
     raise ValueError(f"unknown review action {what}")
 
 

@@ -1,11 +1,13 @@
 """Writing decisions into a store that another job may hold: wait for the single-writer lock, else queue.
 
-The embedded store has one writer at a time (a nightly job, say). A decision made meanwhile is first checked
-against a read-only view (so a bad one is refused at once), then applied as soon as the lock is free, waiting up
-to `wait` seconds; if the store is still busy it is appended to a queue file beside the store
-(`<store>.pending-decisions.jsonl`, flushed to disk) and applied by the next review write, by the review page's
-background flush, or by `graftwork review pending --apply`. Each queued decision carries a `ref`, so a queue
-that is replayed twice (say, after a crash between commit and truncate) is still applied once.
+The embedded store has one writer at a time (a nightly job, say), and no reader while it writes. A decision made
+meanwhile is applied as soon as the store is free, waiting up to `wait` seconds; if it stays busy the decision is
+appended to a queue file beside the store (`<store>.pending-decisions.jsonl`, flushed to disk) and applied by the
+next review write, by the review page's background flush, or by `graftwork review pending --apply`. A decision
+naming an unknown category or concept is refused at once when the store can be read; while a job writes, it
+cannot be read, so that check happens at replay, and a refused decision is logged to
+`<store>.failed-decisions.jsonl` and listed by `graftwork review pending`. Each queued decision carries a `ref`,
+so a queue that is replayed twice (say, after a crash between commit and truncate) is still applied once.
 """
 
 from __future__ import annotations
@@ -85,11 +87,22 @@ class DecisionGate:
             return []
         return [json.loads(line) for line in path.read_text(encoding="utf-8").splitlines() if line.strip()]
 
+    def failed(self) -> list[dict]:
+        """Queued decisions refused at replay (unknown category or concept), with the reason, oldest first."""
+        path = Path(self.store_path + FAILED_SUFFIX)
+        if not path.exists():
+            return []
+        return [json.loads(line) for line in path.read_text(encoding="utf-8").splitlines() if line.strip()]
+
     # -- internals --------------------------------------------------------------------------------------------------
     def _check(self, decisions: list[Decision], *, strict: bool) -> None:
         if not strict:
             return
-        with self._open(read_only=True) as store:
+        try:
+            store = self._open(read_only=True)
+        except StoreLocked:
+            return  # a writer excludes readers too: checked at replay instead
+        with store:
             reference = pick_reference(store, self.reference)
             tree = ConceptTree.load(store, reference)
             for d in decisions:

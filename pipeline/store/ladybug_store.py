@@ -13,6 +13,7 @@ import pandas as pd
 import pyarrow as pa
 
 from pipeline.errors import NotAStore, StoreLocked
+from pipeline.store import access_lock
 from pipeline.store.base import SCHEMA_VERSION, Store, VectorSet
 from pipeline.store.queries import load_query, statements
 
@@ -34,31 +35,54 @@ class LadybugStore(Store):
         if p.is_dir():
             raise NotAStore(f"{path}: is a folder, not a graftwork store file")
         fresh = not p.exists()
+        had_lock_file = access_lock.access_file(p).exists()
+        self._lock = access_lock.acquire(p, exclusive=not read_only, timeout=lock_timeout)
+        try:
+            self._open_engine(ladybug, p, read_only, lock_timeout)
+            self._tx_depth = 0
+            self.read_only = read_only
+            self._check_or_create_schema(fresh)
+        except BaseException as exc:
+            self.close()
+            if isinstance(exc, NotAStore) and not had_lock_file:
+                access_lock.access_file(p).unlink(missing_ok=True)  # leave a foreign file's folder as it was
+            raise
+
+    def _open_engine(self, ladybug, p: Path, read_only: bool, lock_timeout: float) -> None:
         deadline = time.monotonic() + max(0.0, lock_timeout)
         recovered = False
         while True:
             try:
                 self._db = ladybug.Database(str(p), read_only=read_only)
                 self._conn = ladybug.Connection(self._db)
-                break
+                return
             except RuntimeError as exc:
                 if read_only and "recovery is pending" in str(exc) and not recovered:
                     # A job was killed before its log was checkpointed: a read-write open replays the committed
-                    # transactions (and drops the uncommitted ones); then the read-only open works.
+                    # transactions (and drops the uncommitted ones); then the read-only open works. The replay is
+                    # a write, so it takes the lock exclusively for that moment.
                     recovered = True
-                    with contextlib.suppress(RuntimeError):
-                        ladybug.Database(str(p)).close()
+                    self._release_lock()
+                    writer = access_lock.acquire(p, exclusive=True, timeout=max(lock_timeout, 30.0))
+                    try:
+                        with contextlib.suppress(RuntimeError):
+                            ladybug.Database(str(p)).close()
+                    finally:
+                        writer.release()
+                    self._lock = access_lock.acquire(p, exclusive=False, timeout=max(lock_timeout, 30.0))
                     continue
-                error = _translate_open_error(path, exc)
+                error = _translate_open_error(p, exc)
                 # Another job holds the store: wait for it up to the timeout, then give up with exit code 3.
                 if not isinstance(error, StoreLocked) or time.monotonic() >= deadline:
                     if isinstance(error, StoreLocked) and lock_timeout > 0:
                         error = StoreLocked(f"{error} (waited {lock_timeout:g} s)")
                     raise error from None
                 time.sleep(0.5)
-        self._tx_depth = 0
-        self.read_only = read_only
-        self._check_or_create_schema(fresh)
+
+    def _release_lock(self) -> None:
+        lock, self._lock = getattr(self, "_lock", None), None
+        if lock is not None:
+            lock.release()
 
     # -- schema -------------------------------------------------------------------------------------------------
     def _check_or_create_schema(self, fresh: bool) -> None:
@@ -186,6 +210,7 @@ class LadybugStore(Store):
             conn.close()
         if db is not None:
             db.close()
+        self._release_lock()
 
 
 def _vector_key(kind: str, signal: str, owner: str) -> str:

@@ -16,7 +16,7 @@ from pathlib import Path
 
 from flask import Flask, abort, jsonify, redirect, render_template, request, url_for
 
-from pipeline.errors import GraftworkError
+from pipeline.errors import GraftworkError, StoreLocked
 from pipeline.review.decisions import ACTIONS, Decision, pick_reference, who
 from pipeline.review.events import edge_history
 from pipeline.review.gate import DecisionGate
@@ -67,9 +67,11 @@ def create_app(store_path: str | Path, *, token: str | None = None, require_toke
 
     @app.errorhandler(GraftworkError)
     def graftwork_error(exc):
+        # a job writing the embedded store keeps readers out too: "try again shortly", not "bad request"
+        status, headers = (503, {"Retry-After": "30"}) if isinstance(exc, StoreLocked) else (400, {})
         if request.path.startswith("/api/"):
-            return jsonify({"error": str(exc)}), 400
-        return render_template("error.html", message=str(exc)), 400
+            return jsonify({"error": str(exc)}), status, headers
+        return render_template("error.html", message=str(exc)), status, headers
 
     @app.get("/")
     def index():
