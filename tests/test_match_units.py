@@ -109,3 +109,65 @@ def test_match_type_rules():
     assert match_type("Pots & planters", ["Pots and planters"], shared_with_family=False, split=False) == "exactMatch"
     assert match_type("Secateurs", ["Pruning tools"], shared_with_family=True, split=False) == "broadMatch"
     assert match_type("Secateurs", ["Pruning tools"], shared_with_family=False, split=False) == "closeMatch"
+
+
+def test_repeated_title_for_an_inner_category_follows_the_learned_level():
+    # reference: S "Energy supply" (depth 1) > D "Energy supply" (depth 2) > leaf K; both inner, same title
+    concepts = _view([
+        ("s", "S", "Energy supply", 1, False, None),
+        ("d", "D", "Energy supply", 2, False, "s"),
+        ("k", "K", "Power plants", 3, True, "d"),
+    ])
+    cats = _view([("t", "T", "Energy supply", 1, False, None), ("u", "U", "Plants", 2, True, "t")])
+    ev = _evidence([[0.90, 0.895, 0.1], [0.1, 0.1, 0.9]])
+    without = decide(cats, concepts, ev, TEXT_ONLY)
+    assert without[0].concepts[0] == 1  # no prior yet: the deeper inner concept, as before
+    prior = np.full((3, 4), 0.2)
+    prior[1, 1] = 1.0  # top-level categories usually land on top-level concepts
+    ranked = decide(cats, concepts, ev, TEXT_ONLY, depth_prior=prior)
+    assert ranked[0].concepts[0] == 0
+
+
+def test_vectorised_lexical_overlap_equals_the_pairwise_rule():
+    from pipeline.match.lexical_batch import pool_lexical
+    from pipeline.match.lexical_overlap import lexical_similarity, word_weights
+
+    cats = ["Pots & Planters", "Garden tools", "Other", "", "Boxes and crates", "Secateurs"]
+    concept_labels = [["Planters and pots"], ["Tools, garden", "Hand tools"], [], ["Crates", ""], ["Lawn mowers"]]
+    weights = word_weights(cats + [labs[0] for labs in concept_labels if labs])
+    cand = np.array([[0, 1, 2, -1], [1, 4, 0, 3], [2, 3, -1, -1], [0, 1, 3, 4], [3, 0, 1, 2], [4, 0, -1, 1]])
+    got = pool_lexical(cats, concept_labels, cand, weights)
+    for i, row in enumerate(cand):
+        for k, j in enumerate(row):
+            want = 0.0 if j < 0 else max((lexical_similarity(cats[i], lab, weights)
+                                           for lab in concept_labels[j] if lab), default=0.0)
+            assert got[i, k] == pytest.approx(want, abs=1e-12), (cats[i], j)
+    assert got[0, 0] == pytest.approx(1.0) and got[1, 1] == 0.0
+
+
+def test_children_get_candidates_from_under_their_parents_concept():
+    from pipeline.match.region_pool import extend_pools
+
+    concepts = _view([
+        ("r", "R", "Trade", 1, False, None),
+        ("a", "A", "Agents", 2, True, "r"),
+        ("b", "B", "Brokers", 2, True, "r"),
+        ("x", "X", "Mining", 1, True, None),
+    ])
+    cats = _view([("p", "P", "Trade", 1, False, None), ("k", "K", "Fee-based sales", 2, True, "p")])
+    q = np.array([[1, 0, 0], [0, 1, 0]], dtype=np.float32)
+    r = np.array([[1, 0, 0], [0, 0.9, 0.1], [0, 0.5, 0.5], [0, 0.95, 0]], dtype=np.float32)
+    pools = [[0], [3]]
+    added = extend_pools(pools, cats, concepts, {0: 0}, q, r, [1], per_category=1)
+    assert added == 1 and pools[1] == [3, 1]  # "Agents", the best-scoring concept under "Trade"
+    assert extend_pools([[0], [3]], cats, concepts, {0: 0}, q, r, [1], max_region=2) == 0  # region too wide
+
+
+def test_evidence_text_is_the_json_of_the_rounded_features():
+    import json
+
+    from pipeline.match.map_job import _evidence_json
+
+    f = np.array([0.123456, 1.0, 0.5, 0.0, 1e-6, 0.99999, -0.25, 0.3333333, 0.6666666, 1 / 7])
+    assert json.loads(_evidence_json(f)) == {n: round(float(v), 4) for n, v in zip(FEATURES, f)}
+    assert _evidence_json(f) == json.dumps({n: round(float(v), 4) for n, v in zip(FEATURES, f)}, sort_keys=True)

@@ -14,7 +14,8 @@ import numpy as np
 
 from pipeline.match.features import FEATURES, NEUTRAL, ScoringModel
 from pipeline.match.hierarchy_view import HierarchyView
-from pipeline.match.lexical_overlap import lexical_similarity, word_weights
+from pipeline.match.lexical_batch import LabelTable, pool_lexical
+from pipeline.match.lexical_overlap import word_weights
 
 T, LEX, MEM, PAR, DEP, INS, SIG_PATH, SIG_LABEL, SIG_GLOSS, ROLE = (FEATURES.index(f) for f in FEATURES)
 
@@ -30,8 +31,9 @@ class Evidence:
     concept_gloss: np.ndarray | None = None
     votes: dict[int, dict[int, float]] | None = None  # category -> concept -> share of shared items there
     signals: dict[str, tuple[np.ndarray, np.ndarray]] | None = None  # path/label/gloss: (category, concept) matrices
-    lexical_cache: dict | None = None      # (category, concept) -> lexical overlap, shared by the passes
+    lexical_cache: dict | None = None      # the pools' lexical overlap, shared by the passes
     word_weights: dict | None = None
+    text_mix: dict[str, float] | None = None  # text = sum of weight * signal cosine (the weights of stack_signals)
 
 
 @dataclass
@@ -46,87 +48,213 @@ def decide(cats: HierarchyView, concepts: HierarchyView, ev: Evidence, model: Sc
            excluded: dict[int, set[int]] | None = None, fixed_top: dict[int, int] | None = None,
            tie_margin: float = 0.02, only: list[int] | None = None) -> list[Ranked]:
     """Rank the candidates of the categories in `only` (default all); `fixed_top` gives the concept of categories
-    that are decided or not being re-ranked, used as parent context."""
-    excluded = excluded or {}
+    that are decided or not being re-ranked, used as parent context.
+
+    One level of the source tree at a time, so every category sees its parents' choices; within a level the
+    features of all its categories are computed as arrays (blocks of BLOCK categories)."""
     fixed_top = fixed_top or {}
-    anc = concepts.ancestors()
-    concept_labels = [[concepts.labels[j], *concepts.alt_labels[j]] for j in range(len(concepts.uids))]
-    if ev.lexical_cache is None:
-        ev.lexical_cache = {}
-        ev.word_weights = word_weights([*cats.labels, *concepts.labels])
-    lex_cache, weights = ev.lexical_cache, ev.word_weights
-    c_depth = np.array(concepts.depth)
+    n = len(cats.uids)
+    cand = _candidates(ev, excluded or {})
+    lex = _lexical(ev, cats, concepts, cand)
+    rel = _Relations(concepts)
     region = [[j] if not concepts.is_leaf[j] or not concepts.parents[j] else list(concepts.parents[j])
               for j in range(len(concepts.uids))]
-    chosen: dict[int, int] = {}
-    out: list[Ranked | None] = [None] * len(cats.uids)
-    has_members = ev.members is not None and ev.concept_gloss is not None
-    chosen.update(fixed_top)
-    todo = set(range(len(cats.uids))) if only is None else set(only)
-    for ci in cats.top_down():
-        if ci not in todo:
-            continue
-        cand = [j for j in ev.pools[ci] if j not in excluded.get(ci, ())]
-        if not cand:
-            out[ci] = Ranked([], [], np.zeros((0, len(FEATURES))))
-            continue
-        idx = np.array(cand)
-        f = np.empty((len(cand), len(FEATURES)))
-        f[:, T] = ev.r_text[idx] @ ev.q_text[ci]
-        for k, j in enumerate(cand):
-            # Lexical overlap does not change between passes: computed once per pair.
-            if (ci, j) not in lex_cache:
-                lex_cache[(ci, j)] = max((lexical_similarity(cats.labels[ci], lab, weights)
-                                          for lab in concept_labels[j] if lab), default=0.0)
-            f[k, LEX] = lex_cache[(ci, j)]
-        if has_members and np.any(ev.members[ci]):
-            f[:, MEM] = ev.concept_gloss[idx] @ ev.members[ci]
-        else:
-            f[:, MEM] = f[:, T]
-        # The region a child should land in: the parent's concept, or, when that concept is a leaf of the
-        # reference (a deeper source mapped into a coarser reference), the leaf's own parent, so siblings count.
-        parent_tops = [a for p in cats.parents[ci] if p in chosen for a in region[chosen[p]]]
-        if parent_tops:
-            f[:, PAR] = [1.0 if any(p == j or p in anc[j] for p in parent_tops) else 0.0 for j in cand]
-        else:
-            f[:, PAR] = NEUTRAL["parent"]
-        f[:, DEP] = depth_prior[cats.depth[ci], c_depth[idx]] if depth_prior is not None else NEUTRAL["depth"]
-        for col, name in ((SIG_PATH, "path"), (SIG_LABEL, "label"), (SIG_GLOSS, "gloss")):
-            if ev.signals and name in ev.signals:
-                qm, rm = ev.signals[name]
-                f[:, col] = rm[idx] @ qm[ci]
-            else:
-                f[:, col] = f[:, T]
-        f[:, ROLE] = [1.0 if concepts.is_leaf[j] == cats.is_leaf[ci] else 0.0 for j in cand]
-        votes = (ev.votes or {}).get(ci, {})
-        f[:, INS] = [votes.get(j, 0.0) for j in cand]
-        logits = model.logit(f, disabled)
-        order = sorted(range(len(cand)), key=lambda k: (-logits[k], cand[k]))
-        order = _repeated_titles(order, cand, f, logits, ci, cats, concepts, anc, tie_margin * _text_weight(model))
-        probs = 1.0 / (1.0 + np.exp(-logits))
-        top_prob = probs.max()  # a repeated-title winner takes its group's best score, so ranks stay ordered
-        ranked_probs = [float(top_prob)] + [float(probs[k]) for k in order[1:]]
-        out[ci] = Ranked([cand[k] for k in order], ranked_probs, f[order])
-        chosen[ci] = fixed_top.get(ci, cand[order[0]])
+    votes = _vote_lookup(ev.votes, len(concepts.uids))
+    c_depth = np.array(concepts.depth, dtype=np.int64)
+    c_leaf = np.array(concepts.is_leaf, dtype=bool)
+    margin = tie_margin * _text_weight(model)
+    chosen = np.full(n, -1, dtype=np.int64)
+    for ci, j in fixed_top.items():
+        chosen[ci] = j
+    out: list[Ranked | None] = [None] * n
+    todo = np.zeros(n, dtype=bool)
+    todo[list(range(n)) if only is None else list(only)] = True
+    depth = np.array(cats.depth, dtype=np.int64)
+    for level in np.unique(depth[todo]):
+        rows_all = np.nonzero(todo & (depth == level))[0]
+        for lo in range(0, len(rows_all), BLOCK):
+            rows = rows_all[lo:lo + BLOCK]
+            c = cand[rows]
+            valid = c >= 0
+            f = _features(rows, c, valid, ev, cats, lex, rel, region, chosen, votes, depth_prior, c_depth, c_leaf)
+            logits = model.logit(f.reshape(-1, len(FEATURES)), disabled).reshape(c.shape)
+            logits = np.where(valid, logits, -np.inf)
+            order = np.lexsort((np.where(valid, c, np.iinfo(np.int64).max), -logits), axis=1)
+            _repeated_titles(order, c, logits, rows, cats, rel, c_leaf, c_depth, margin, depth_prior)
+            probs = 1.0 / (1.0 + np.exp(-logits))
+            for r, ci in enumerate(rows):
+                k = order[r, : int(valid[r].sum())]
+                if not len(k):
+                    out[ci] = Ranked([], [], np.zeros((0, len(FEATURES))))
+                    continue
+                # a repeated-title winner takes its group's best score, so ranks stay ordered
+                ranked_probs = [float(probs[r, valid[r]].max())] + probs[r, k[1:]].tolist()
+                out[ci] = Ranked(c[r, k].tolist(), ranked_probs, f[r, k])
+                chosen[ci] = fixed_top.get(ci, int(c[r, k[0]]))
     return out  # type: ignore[return-value]
+
+
+BLOCK = 512  # categories whose features are held at once (block x pool x vector width floats)
+
+
+def _candidates(ev: Evidence, excluded: dict[int, set[int]]) -> np.ndarray:
+    """Pools as a padded array (-1 = none), with rejected concepts taken out, order kept."""
+    width = max((len(p) for p in ev.pools), default=0) or 1
+    cand = np.full((len(ev.pools), width), -1, dtype=np.int64)
+    for ci, pool in enumerate(ev.pools):
+        keep = [j for j in pool if j not in excluded.get(ci, ())] if ci in excluded else pool
+        cand[ci, : len(keep)] = keep
+    return cand
+
+
+def _lexical(ev: Evidence, cats: HierarchyView, concepts: HierarchyView, cand: np.ndarray) -> np.ndarray:
+    """Lexical overlap of every pool pair. Pairs seen by an earlier pass over the same Evidence are reused (a later
+    pass adds the concepts voted for by shared items to the pools, and a few pairs only are new)."""
+    if ev.word_weights is None:
+        ev.word_weights = word_weights([*cats.labels, *concepts.labels])
+    cache = ev.lexical_cache or {}
+    if "table" not in cache:
+        labels = [[concepts.labels[j], *concepts.alt_labels[j]] for j in range(len(concepts.uids))]
+        cache.update(table=LabelTable([*cats.labels, *(lab for labs in labels for lab in labs if lab)],
+                                      ev.word_weights), labels=labels, keys=np.zeros(0, np.int64), values=np.zeros(0))
+    m = len(concepts.uids)
+    keys = np.where(cand >= 0, np.arange(len(cand))[:, None] * m + cand, -1)
+    at = np.minimum(np.searchsorted(cache["keys"], keys), max(len(cache["keys"]) - 1, 0))
+    known = (cand >= 0) & (cache["keys"][at] == keys) if len(cache["keys"]) else np.zeros(cand.shape, dtype=bool)
+    lex = np.where(known, cache["values"][at] if len(cache["keys"]) else 0.0, 0.0)
+    missing = (cand >= 0) & ~known
+    if missing.any():
+        fresh = pool_lexical(cats.labels, cache["labels"], np.where(missing, cand, -1), ev.word_weights,
+                             table=cache["table"])
+        lex = np.where(missing, fresh, lex)
+        all_keys = np.concatenate([cache["keys"], keys[missing]])
+        all_values = np.concatenate([cache["values"], fresh[missing]])
+        order = np.argsort(all_keys, kind="stable")
+        cache["keys"], cache["values"] = all_keys[order], all_values[order]
+    ev.lexical_cache = cache
+    return lex
+
+
+class _Relations:
+    """Ancestor-or-descendant tests on concept pairs as sorted int64 keys (descendant * n + ancestor)."""
+
+    def __init__(self, concepts: HierarchyView):
+        anc = concepts.ancestors()
+        self.n = len(concepts.uids)
+        keys = [d * self.n + a for d, ups in enumerate(anc) for a in ups]
+        self.keys = np.array(sorted(keys), dtype=np.int64)
+
+    def is_ancestor(self, a: np.ndarray, d: np.ndarray) -> np.ndarray:
+        """a[i] is a strict ancestor of d[i] (both >= 0)."""
+        if not len(self.keys):
+            return np.zeros(np.shape(a), dtype=bool)
+        k = np.asarray(d, dtype=np.int64) * self.n + np.asarray(a, dtype=np.int64)
+        at = np.minimum(np.searchsorted(self.keys, k), len(self.keys) - 1)
+        return self.keys[at] == k
+
+
+def _vote_lookup(votes: dict[int, dict[int, float]] | None, n_concepts: int):
+    if not votes:
+        return None
+    keys = np.array([ci * n_concepts + j for ci, vs in votes.items() for j in vs], dtype=np.int64)
+    vals = np.array([v for vs in votes.values() for v in vs.values()], dtype=np.float64)
+    order = np.argsort(keys)
+    return keys[order], vals[order], n_concepts
+
+
+def _gather_dot(queries: np.ndarray, refs: np.ndarray, rows: np.ndarray, c: np.ndarray) -> np.ndarray:
+    """queries[rows[r]] . refs[c[r, k]] for every (r, k); padding (-1) reads row 0 and is masked later."""
+    return np.einsum("rkd,rd->rk", refs[np.maximum(c, 0)], queries[rows])
+
+
+def _features(rows, c, valid, ev, cats, lex, rel, region, chosen, votes, depth_prior, c_depth, c_leaf):
+    b, width = c.shape
+    f = np.empty((b, width, len(FEATURES)))
+    safe = np.maximum(c, 0)
+    for col, name in ((SIG_PATH, "path"), (SIG_LABEL, "label"), (SIG_GLOSS, "gloss")):
+        if ev.signals and name in ev.signals:
+            qm, rm = ev.signals[name]
+            f[:, :, col] = _gather_dot(qm, rm, rows, c)
+    if ev.text_mix and ev.signals and all(name in ev.signals for name in ev.text_mix):
+        # the fused cosine is the weighted sum of the signal cosines: no need to gather the stacked vectors
+        cols = {"path": SIG_PATH, "label": SIG_LABEL, "gloss": SIG_GLOSS}
+        f[:, :, T] = sum(w * f[:, :, cols[name]] for name, w in ev.text_mix.items())
+    else:
+        f[:, :, T] = _gather_dot(ev.q_text, ev.r_text, rows, c)
+    for col, name in ((SIG_PATH, "path"), (SIG_LABEL, "label"), (SIG_GLOSS, "gloss")):
+        if not (ev.signals and name in ev.signals):
+            f[:, :, col] = f[:, :, T]
+    f[:, :, LEX] = lex[rows]
+    f[:, :, MEM] = f[:, :, T]
+    if ev.members is not None and ev.concept_gloss is not None:
+        has = np.any(ev.members[rows] != 0, axis=1)
+        if has.any():
+            f[has, :, MEM] = _gather_dot(ev.members, ev.concept_gloss, rows[has], c[has])
+    # The region a child should land in: the parent's concept, or, when that concept is a leaf of the reference
+    # (a deeper source mapped into a coarser reference), the leaf's own parent, so siblings count.
+    f[:, :, PAR] = NEUTRAL["parent"]
+    owner, tops = [], []
+    for r, ci in enumerate(rows):
+        for p in cats.parents[ci]:
+            if chosen[p] >= 0:
+                for a in region[chosen[p]]:
+                    owner.append(r)
+                    tops.append(a)
+    if owner:
+        owner_a, tops_a = np.array(owner), np.array(tops)
+        with_parent = np.unique(owner_a)
+        f[with_parent, :, PAR] = 0.0
+        under = (tops_a[:, None] == c[owner_a]) | rel.is_ancestor(np.broadcast_to(tops_a[:, None], c[owner_a].shape),
+                                                                  safe[owner_a])
+        hit = np.zeros((b, width), dtype=bool)
+        np.logical_or.at(hit, owner_a, under)
+        f[with_parent, :, PAR] = hit[with_parent]
+    cat_depth = np.array([cats.depth[ci] for ci in rows])
+    f[:, :, DEP] = depth_prior[cat_depth[:, None], c_depth[safe]] if depth_prior is not None else NEUTRAL["depth"]
+    cat_leaf = np.array([cats.is_leaf[ci] for ci in rows], dtype=bool)
+    f[:, :, ROLE] = (c_leaf[safe] == cat_leaf[:, None]).astype(np.float64)
+    f[:, :, INS] = 0.0
+    if votes is not None:
+        keys, vals, n_concepts = votes
+        k = rows[:, None].astype(np.int64) * n_concepts + safe
+        at = np.minimum(np.searchsorted(keys, k), len(keys) - 1)
+        f[:, :, INS] = np.where((keys[at] == k) & valid, vals[at], 0.0)
+    return f
 
 
 def _text_weight(model: ScoringModel) -> float:
     return max(model.weights.get("text", 0.0), 1e-6)
 
 
-def _repeated_titles(order, cand, f, logits, ci, cats, concepts, anc, logit_margin):
-    best = order[0]
-    jb = cand[best]
-    group = [best] + [
-        k for k in order[1:]
-        if logits[k] >= logits[best] - logit_margin and (cand[k] in anc[jb] or jb in anc[cand[k]])
-    ]
-    if len(group) == 1:
-        return order
-    want_leaf = cats.is_leaf[ci]
-    winner = max(group, key=lambda k: (concepts.is_leaf[cand[k]] == want_leaf, concepts.depth[cand[k]], logits[k]))
-    return [winner] + [k for k in order if k != winner]
+def _repeated_titles(order, c, logits, rows, cats, rel, c_leaf, c_depth, margin, depth_prior) -> None:
+    """Among the best candidate and its ancestors or descendants within `margin` of its logit, a leaf category
+    takes the most specific concept, and an inner category an inner one at the level its peers usually land on
+    (the learned depth prior; the deepest before it is learned). Rewrites `order` rows in place."""
+    r_idx = np.arange(len(rows))
+    best = order[:, 0]
+    jb = c[r_idx, best]
+    ranked_c = np.take_along_axis(c, order, axis=1)
+    ranked_l = np.take_along_axis(logits, order, axis=1)
+    safe = np.maximum(ranked_c, 0)
+    jb_safe = np.broadcast_to(np.maximum(jb, 0)[:, None], safe.shape)
+    close = (ranked_c >= 0) & (ranked_l >= ranked_l[:, :1] - margin)
+    close[:, 0] = False
+    related = rel.is_ancestor(safe, jb_safe) | rel.is_ancestor(jb_safe, safe)
+    group = close & related & (jb[:, None] >= 0)
+    for r in np.nonzero(group.any(axis=1))[0]:
+        members = [0, *np.nonzero(group[r])[0].tolist()]
+        ci = rows[r]
+        want_leaf = cats.is_leaf[ci]
+
+        def level(m: int) -> float:
+            d = int(c_depth[ranked_c[r, m]])
+            return float(depth_prior[cats.depth[ci], d]) if depth_prior is not None and not want_leaf else d
+
+        win = max(members, key=lambda m: (bool(c_leaf[ranked_c[r, m]]) == want_leaf, level(m), ranked_l[r, m]))
+        if win:
+            row = order[r].tolist()
+            w = row.pop(win)
+            order[r] = [w, *row]
 
 
 def learn_depth_prior(cats: HierarchyView, concepts: HierarchyView, ranked: list[Ranked], *,

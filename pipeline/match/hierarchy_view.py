@@ -21,23 +21,29 @@ class HierarchyView:
     def from_rows(cls, frame: pd.DataFrame, order: list[str] | None = None) -> "HierarchyView":
         """`frame`: rows of uid, code, label, depth, is_leaf, parent (one per link) as the *_structure queries give.
         `order`: uids in the order of a vector matrix (nodes without vectors are dropped)."""
-        first = frame.drop_duplicates("uid").set_index("uid")
-        uids = list(order) if order is not None else list(first.index)
-        uids = [u for u in uids if u in first.index]
+        first = frame.drop_duplicates("uid")
+        known = dict(zip(first["uid"], range(len(first))))
+        uids = [u for u in (list(order) if order is not None else first["uid"]) if u in known]
         pos = {u: i for i, u in enumerate(uids)}
         parents: list[list[int]] = [[] for _ in uids]
         for uid, parent in zip(frame["uid"], frame["parent"]):
             if isinstance(parent, str) and uid in pos and parent in pos:
                 parents[pos[uid]].append(pos[parent])
-        alts = first["alt_labels"] if "alt_labels" in first.columns else None
+        at = [known[u] for u in uids]
+
+        def column(name: str) -> list:
+            values = first[name].tolist()
+            return [values[k] for k in at]
+
+        alts = column("alt_labels") if "alt_labels" in first.columns else [None] * len(uids)
         return cls(
             uids=uids,
-            codes=[first.at[u, "code"] for u in uids],
-            labels=[first.at[u, "label"] for u in uids],
-            depth=[int(first.at[u, "depth"]) for u in uids],
-            is_leaf=[bool(first.at[u, "is_leaf"]) for u in uids],
+            codes=column("code"),
+            labels=column("label"),
+            depth=[int(d) for d in column("depth")],
+            is_leaf=[bool(x) for x in column("is_leaf")],
             parents=parents,
-            alt_labels=[list(alts[u]) if alts is not None and alts[u] is not None else [] for u in uids],
+            alt_labels=[list(a) if a is not None else [] for a in alts],
         )
 
     def ancestors(self) -> list[frozenset[int]]:

@@ -21,6 +21,7 @@ import pandas as pd
 from pipeline.errors import BadInput, NotFound, Problem
 from pipeline.match.candidates import stack_signals, top_k
 from pipeline.match.pools import text_pools
+from pipeline.match.region_pool import extend_pools
 from pipeline.match.decide import Evidence, Ranked, decide, learn_depth_prior
 from pipeline.match.features import FEATURES, ScoringModel
 from pipeline.match.hierarchy_view import HierarchyView
@@ -48,6 +49,7 @@ class MapSettings:
     multi_margin: float = 0.0      # > 0 allows 1:n: a second auto edge this close to the first (off by default)
     depth_sample: float = 0.5      # share of first-pass choices the depth prior is learned from
     disabled: frozenset[str] = field(default_factory=frozenset)  # features switched off (ablation)
+    region_pool: int = 10          # candidates added from under the parent's concept after the first pass (0: off)
     index_above: int | None = 20000  # references larger than this use the store's vector index (if any) for pools
 
 
@@ -193,8 +195,15 @@ def _plan(store: Store, source: str, reference: str, concept_side, settings: Map
             plan.prior = learn_depth_prior(cats, concepts, first, sample=settings.depth_sample)
             store.run("meta_set", key=prior_key, value=json.dumps(plan.prior.round(6).tolist()))
     else:
+        first = None
         stored = store.scalar("meta_get", key=prior_key)
         plan.prior = _fit_prior(np.array(json.loads(stored)), cats, concepts) if stored else None
+    if settings.region_pool > 0 and cats.uids:
+        tops = dict(context)
+        for ci, rk in enumerate(first or []):
+            if rk is not None and rk.concepts:
+                tops.setdefault(ci, rk.concepts[0])
+        extend_pools(ev.pools, cats, concepts, tops, ev.q_text, ev.r_text, todo, per_category=settings.region_pool)
     if cats.uids:
         plan.first = decide(cats, concepts, ev, model, disabled=settings.disabled, depth_prior=plan.prior,
                             excluded=excluded, fixed_top=context, tie_margin=settings.tie_margin, only=todo)
@@ -291,9 +300,20 @@ def _evidence_for(store, source, reference, cats, concepts, qmats, cmats, settin
             else:
                 fixed[kpos[cat]] = cpos[con]
     signals = {b if a == "label" and b == "gloss" else a: (qmats[a], cmats[b]) for a, b, _ in DEFAULT_SIGNALS}
+    mix = {b if a == "label" and b == "gloss" else a: w for a, b, w in DEFAULT_SIGNALS}
     ev = Evidence(pools=pools, q_text=q, r_text=r, members=mem_matrix, concept_gloss=cmats["gloss"],
-                  signals=signals)
+                  signals=signals, text_mix=mix)
     return ev, fixed, excluded
+
+
+_EVIDENCE_ORDER = sorted(range(len(FEATURES)), key=lambda k: FEATURES[k])
+_EVIDENCE_TEXT = "{" + ", ".join(f'"{FEATURES[k]}": %r' for k in _EVIDENCE_ORDER) + "}"
+
+
+def _evidence_json(f: np.ndarray) -> str:
+    """The features as a JSON object, keys sorted, values rounded to 4 places (json.dumps would give the same text
+    at a few times the cost, on every edge of every run)."""
+    return _EVIDENCE_TEXT % tuple(round(v, 4) for v in f[_EVIDENCE_ORDER].tolist())
 
 
 def _edge_rows(cats, concepts, ranked: list[Ranked], todo, fixed, settings, threshold, model, run_id):
@@ -339,7 +359,7 @@ def _edge_rows(cats, concepts, ranked: list[Ranked], todo, fixed, settings, thre
                                          shared_with_family=shared, split=split and status == "auto"),
                 "status": status,
                 "method": f"fused:{model.source}",
-                "evidence": json.dumps({name: round(float(v), 4) for name, v in zip(FEATURES, f)}, sort_keys=True),
+                "evidence": _evidence_json(f),
                 "run_id": run_id,
             })
     return rows, counts

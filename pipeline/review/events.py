@@ -15,6 +15,7 @@ import uuid
 from collections.abc import Iterable
 from datetime import datetime, timezone
 
+import numpy as np
 import pandas as pd
 import pyarrow as pa
 
@@ -73,45 +74,75 @@ def record_machine_edges(store: Store, rows: Iterable[dict], run_id: str, *,
     The map job calls it right after `machine_edges_create`:
     `record_machine_edges(store, rows, run_id, categories=cats.uids)`.
     """
-    rows = [dict(r) for r in rows]
-    remapped = set(categories or ()) | {r["category"] for r in rows}
+    new = pd.DataFrame(list(rows), columns=["category", "concept", "status", "score", "rank"])
+    new = new[["category", "concept", "status", "score", "rank"]]
+    remapped = set(categories or ()) | set(new["category"])
     counts = {"proposed": 0, "withdrawn": 0, "unchanged": 0}
     if not remapped:
         return counts
-    latest = latest_events(store, sorted(remapped))
-    hashes = _concept_hashes(store, {r["concept"] for r in rows})
+    latest = latest_events(store, remapped)
+    merged = new.merge(latest, on=["category", "concept"], how="left", suffixes=("", "_prev"))
+    unchanged = ((merged["action"] == "proposed") & (merged["status_prev"] == merged["status"])
+                 & _same_rank(merged["rank_prev"], merged["rank"]) & _close_scores(merged["score_prev"], merged["score"]))
+    counts["unchanged"] = int(unchanged.sum())
+    proposed = merged[~unchanged.to_numpy()]
+    hashes = _concept_hashes(store, set(proposed["concept"]))
+    gone = latest[latest["action"] == "proposed"].merge(new[["category", "concept"]], how="left", indicator=True)
+    gone = gone[gone["_merge"] == "left_only"]
     at = now_iso()
-    out: list[dict] = []
-    seen: set[tuple[str, str]] = set()
-    for r in rows:
-        key = (r["category"], r["concept"])
-        seen.add(key)
-        prev = latest.get(key)
-        if prev is not None and prev["action"] == "proposed" and prev["status"] == r["status"] \
-                and _same(prev["rank"], r.get("rank")) and _close(prev["score"], r.get("score")):
-            counts["unchanged"] += 1
-            continue
-        out.append(event_row("proposed", category=r["category"], concept=r["concept"], status=r["status"],
-                             status_before=prev["status"] if prev is not None else "", score=r.get("score"),
-                             rank=r.get("rank"), run_id=run_id, concept_hash=hashes.get(r["concept"], ""),
-                             at=at, seq=len(out)))
-        counts["proposed"] += 1
-    for key, prev in latest.items():
-        if key[0] in remapped and key not in seen and prev["action"] == "proposed":
-            out.append(event_row("withdrawn", category=key[0], concept=key[1], status="",
-                                 status_before=prev["status"], run_id=run_id, at=at, seq=len(out)))
-            counts["withdrawn"] += 1
-    write_events(store, out)
+    table = pd.concat([
+        pd.DataFrame({"action": "proposed", "category": proposed["category"], "concept": proposed["concept"],
+                      "status": proposed["status"], "status_before": proposed["status_prev"].fillna(""),
+                      "score": proposed["score"].astype("float64"), "rank": proposed["rank"].astype("Int64"),
+                      "concept_hash": proposed["concept"].map(hashes).fillna("")}),
+        pd.DataFrame({"action": "withdrawn", "category": gone["category"], "concept": gone["concept"], "status": "",
+                      "status_before": gone["status"].fillna(""), "score": np.nan,
+                      "rank": pd.array([pd.NA] * len(gone), dtype="Int64"), "concept_hash": ""}),
+    ], ignore_index=True)
+    counts["proposed"], counts["withdrawn"] = len(proposed), len(gone)
+    write_event_table(store, table, run_id=run_id, at=at)
     return counts
 
 
-def latest_events(store: Store, categories: list[str]) -> dict[tuple[str, str], dict]:
-    """The newest event of every edge of these categories, keyed by (category uid, concept uid)."""
-    df = store.frame("review_events_machine", uids=list(categories))
+def write_event_table(store: Store, table: pd.DataFrame, *, run_id: str = "", actor: str = "", at: str) -> int:
+    """Append the events in `table` (columns action, category, concept, status, status_before, score, rank,
+    concept_hash), stamped with one time and run, in row order (their `seq`)."""
+    if table.empty:
+        return 0
+    n = len(table)
+    cols = {
+        "id": [uuid.uuid4().hex for _ in range(n)], "seq": np.arange(n, dtype=np.int64), "at": [at] * n,
+        "action": table["action"].tolist(), "source": table["category"].str.split(":", n=1).str[0].tolist(),
+        "category": table["category"].tolist(), "concept": table["concept"].tolist(),
+        "status": table["status"].tolist(), "status_before": table["status_before"].tolist(),
+        "score": pa.array(table["score"].to_numpy(dtype="float64"), mask=table["score"].isna().to_numpy()),
+        "rank": pa.array(table["rank"].astype("float64").fillna(0).to_numpy(dtype="int64"),
+                         mask=table["rank"].isna().to_numpy()),
+        "run_id": [run_id or ""] * n, "actor": [actor or ""] * n, "note": [""] * n,
+        "concept_hash": table["concept_hash"].tolist(), "ref": [""] * n,
+    }
+    arrow = pa.table(cols, schema=_SCHEMA)
+    if n > _BULK_FROM:
+        store.bulk("review_events_bulk", arrow)
+    else:
+        for r in arrow.to_pylist():
+            store.run("review_event_create", **r)
+    return n
+
+
+def latest_events(store: Store, categories: Iterable[str]) -> pd.DataFrame:
+    """The newest event of every edge of these categories: one row per (category, concept), with the event's
+    action, status, score and rank."""
+    wanted = set(categories)
+    cols = ["category", "concept", "action", "status", "score", "rank"]
+    if not wanted:
+        return pd.DataFrame(columns=cols)
+    df = store.frame("review_events_of_sources", sources=sorted({c.split(":", 1)[0] for c in wanted}))
     if df.empty:
-        return {}
-    df = df.sort_values(["at", "seq"]).drop_duplicates(["category", "concept"], keep="last")
-    return {(r["category"], r["concept"]): r for r in df.to_dict("records")}
+        return pd.DataFrame(columns=cols)
+    df = df[df["category"].isin(wanted)]
+    df = df.sort_values(["at", "seq"], kind="stable").drop_duplicates(["category", "concept"], keep="last")
+    return df[cols].reset_index(drop=True)
 
 
 def edge_history(store: Store, category_uid: str) -> pd.DataFrame:
@@ -131,13 +162,11 @@ def _missing(x) -> bool:
     return x is None or (isinstance(x, float) and x != x)
 
 
-def _same(a, b) -> bool:
-    if _missing(a) or _missing(b):
-        return _missing(a) and _missing(b)
-    return int(a) == int(b)
+def _same_rank(before: pd.Series, now: pd.Series) -> pd.Series:
+    b, n = pd.to_numeric(before, errors="coerce"), pd.to_numeric(now, errors="coerce")
+    return (b.isna() & n.isna()) | (b == n)
 
 
-def _close(a, b) -> bool:
-    if _missing(a) or _missing(b):
-        return _missing(a) and _missing(b)
-    return abs(float(a) - float(b)) < SCORE_TOLERANCE
+def _close_scores(before: pd.Series, now: pd.Series) -> pd.Series:
+    b, n = pd.to_numeric(before, errors="coerce"), pd.to_numeric(now, errors="coerce")
+    return (b.isna() & n.isna()) | ((b - n).abs() < SCORE_TOLERANCE)
