@@ -34,6 +34,7 @@ class Evidence:
     lexical_cache: dict | None = None      # the pools' lexical overlap, shared by the passes
     word_weights: dict | None = None
     text_mix: dict[str, float] | None = None  # text = sum of weight * signal cosine (the weights of stack_signals)
+    label_table: "LabelTable | None" = None  # tokenised labels shared by the sources of one run
 
 
 @dataclass
@@ -75,6 +76,8 @@ def decide(cats: HierarchyView, concepts: HierarchyView, ev: Evidence, model: Sc
         for lo in range(0, len(rows_all), BLOCK):
             rows = rows_all[lo:lo + BLOCK]
             c = cand[rows]
+            # pools are left-packed: trim to this block's longest, so one long pool does not widen every block
+            c = c[:, : max(int((c >= 0).sum(axis=1).max()), 1)]
             valid = c >= 0
             f = _features(rows, c, valid, ev, cats, lex, rel, region, chosen, votes, depth_prior, c_depth, c_leaf)
             logits = model.logit(f.reshape(-1, len(FEATURES)), disabled).reshape(c.shape)
@@ -115,8 +118,10 @@ def _lexical(ev: Evidence, cats: HierarchyView, concepts: HierarchyView, cand: n
     cache = ev.lexical_cache or {}
     if "table" not in cache:
         labels = [[concepts.labels[j], *concepts.alt_labels[j]] for j in range(len(concepts.uids))]
-        cache.update(table=LabelTable([*cats.labels, *(lab for labs in labels for lab in labs if lab)],
-                                      ev.word_weights), labels=labels, keys=np.zeros(0, np.int64), values=np.zeros(0))
+        concept_labels = [lab for labs in labels for lab in labs if lab]
+        base = ev.label_table if ev.label_table is not None else LabelTable(concept_labels, None)
+        cache.update(table=base.extended([*cats.labels, *concept_labels], ev.word_weights), labels=labels,
+                     keys=np.zeros(0, np.int64), values=np.zeros(0))
     m = len(concepts.uids)
     keys = np.where(cand >= 0, np.arange(len(cand))[:, None] * m + cand, -1)
     at = np.minimum(np.searchsorted(cache["keys"], keys), max(len(cache["keys"]) - 1, 0))
@@ -184,7 +189,7 @@ def _features(rows, c, valid, ev, cats, lex, rel, region, chosen, votes, depth_p
     for col, name in ((SIG_PATH, "path"), (SIG_LABEL, "label"), (SIG_GLOSS, "gloss")):
         if not (ev.signals and name in ev.signals):
             f[:, :, col] = f[:, :, T]
-    f[:, :, LEX] = lex[rows]
+    f[:, :, LEX] = lex[rows, :width]
     f[:, :, MEM] = f[:, :, T]
     if ev.members is not None and ev.concept_gloss is not None:
         has = np.any(ev.members[rows] != 0, axis=1)

@@ -7,10 +7,12 @@ result equals `lexical_overlap.lexical_similarity` (best over a concept's labels
 
 >>> lab = LabelTable(["Pots & Planters", "planter and pot", "Lawn mowers"], weights=None)
 >>> [round(float(x), 2) for x in lab.similarity(np.array([0, 0]), np.array([1, 2]))]
-[1.0, 0.0]
+[1.0, 0.05]
 """
 
 from __future__ import annotations
+
+import copy
 
 import numpy as np
 
@@ -22,27 +24,44 @@ class LabelTable:
 
     def __init__(self, labels: list[str], weights: dict[str, float] | None):
         self.row: dict[str, int] = {}
-        words: dict[str, int] = {}
-        grams: dict[str, int] = {}
-        w_rows, t_rows = [], []
+        self.vocabulary: dict[str, int] = {}
+        self._grams: dict[str, int] = {}
+        self._w_rows: list[list[int]] = []
+        self._t_rows: list[list[int]] = []
+        self._add(labels)
+        self._weigh(weights)
+
+    def _add(self, labels) -> None:
+        words, grams = self.vocabulary, self._grams
         for label in labels:
             if label in self.row:
                 continue
             self.row[label] = len(self.row)
-            w_rows.append([words.setdefault(w, len(words)) for w in word_set(label)])
-            t_rows.append([grams.setdefault(t, len(grams)) for t in trigrams(label)])
+            self._w_rows.append([words.setdefault(w, len(words)) for w in word_set(label)])
+            self._t_rows.append([grams.setdefault(t, len(grams)) for t in trigrams(label)])
         self.n_words, self.n_grams = len(words), len(grams)
-        self.words = _padded(w_rows)
-        self.grams = _padded(t_rows)
+        self.words = _padded(self._w_rows)
+        self.grams = _padded(self._t_rows)
+        self.word_count = (self.words >= 0).sum(axis=1)
+        self.gram_count = (self.grams >= 0).sum(axis=1)
+
+    def extended(self, labels: list[str], weights: dict[str, float] | None) -> "LabelTable":
+        """This table plus `labels` (only the new ones are tokenised), under `weights`; this one is unchanged."""
+        other = copy.copy(self)
+        other.row, other.vocabulary, other._grams = dict(self.row), dict(self.vocabulary), dict(self._grams)
+        other._w_rows, other._t_rows = list(self._w_rows), list(self._t_rows)
+        other._add(labels)
+        other._weigh(weights)
+        return other
+
+    def _weigh(self, weights: dict[str, float] | None) -> None:
         weight = np.ones(self.n_words + 1)
         weight[-1] = 0.0  # the padding id (-1) weighs nothing
         if weights:  # words outside the weighting corpus count 1, as in lexical_similarity
-            for w, k in words.items():
+            for w, k in self.vocabulary.items():
                 weight[k] = weights.get(w, 1.0)
         self.word_weight = weight
         self.word_mass = weight[self.words].sum(axis=1)
-        self.word_count = (self.words >= 0).sum(axis=1)
-        self.gram_count = (self.grams >= 0).sum(axis=1)
 
     def similarity(self, a: np.ndarray, b: np.ndarray, *, block: int = 512) -> np.ndarray:
         """Lexical similarity of label rows a[i] and b[i] (row numbers of this table). Pairs sharing an `a` row

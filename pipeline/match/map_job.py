@@ -20,6 +20,7 @@ import pandas as pd
 
 from pipeline.errors import BadInput, NotFound, Problem
 from pipeline.match.candidates import stack_signals, top_k
+from pipeline.match.lexical_batch import LabelTable
 from pipeline.match.pools import text_pools
 from pipeline.match.region_pool import extend_pools
 from pipeline.match.decide import Evidence, Ranked, decide, learn_depth_prior
@@ -79,13 +80,17 @@ def map_sources(store: Store, *, sources: list[str] | None = None, reference: st
         stored = store.scalar("meta_get", key="auto_threshold")
         threshold = float(stored) if stored else 0.80
     concept_side = _load_side(store, "Concept", reference)
+    concepts = concept_side[0]
+    # the reference's labels are tokenised once for every source of the run
+    label_table = LabelTable([lab for j in range(len(concepts.uids))
+                              for lab in (concepts.labels[j], *concepts.alt_labels[j]) if lab], None)
     summary = {"reference": reference, "model": model.source, "auto_threshold": threshold, "sources": {}}
     plans = {}
     for key in targets:
         subset = None if only is None else only.get(key, [])
         if subset is not None and not subset:
             continue
-        plans[key] = _plan(store, key, reference, concept_side, settings, model, subset)
+        plans[key] = _plan(store, key, reference, concept_side, settings, model, subset, label_table)
     # Instance evidence: where the same item keys landed in the other sources, from this run's own first
     # choices (or the stored edges of sources not being re-mapped), so the result never depends on an earlier run.
     if "instance" not in settings.disabled and len(plans) and len(all_sources) > 1:
@@ -166,7 +171,7 @@ class _Plan:
 
 
 def _plan(store: Store, source: str, reference: str, concept_side, settings: MapSettings, model: ScoringModel,
-          subset: list[str] | None) -> _Plan:
+          subset: list[str] | None, label_table: LabelTable | None = None) -> _Plan:
     concepts, cmats, c_emb = concept_side
     cats, qmats, q_emb = _load_side(store, "Category", source)
     if cats.uids and (c_emb != q_emb or len(c_emb) != 1):
@@ -177,6 +182,7 @@ def _plan(store: Store, source: str, reference: str, concept_side, settings: Map
     todo = list(range(len(cats.uids))) if subset is None else sorted(kpos[u] for u in subset if u in kpos)
     ev, fixed, excluded = _evidence_for(store, source, reference, cats, concepts, qmats, cmats, settings, todo,
                                         kpos, cpos)
+    ev.label_table = label_table
     context = dict(fixed)
     if subset is not None:
         # Incremental: the categories not re-mapped keep their current choice as parent context.
@@ -220,22 +226,20 @@ def _add_instance_votes(store: Store, plans: dict[str, _Plan], tops: dict[str, s
             live = store.frame("live_top_edges", source=s, reference=reference)
             for cat, con in zip(live.get("category", []), live.get("concept", [])):
                 tops.setdefault(cat, con)
+    pairs = pairs.assign(top=pairs["other"].map(tops)).dropna(subset=["top"])
     for plan in plans.values():
-        kpos = {u: i for i, u in enumerate(plan.cats.uids)}
-        cpos = {u: i for i, u in enumerate(plan.concepts.uids)}
-        mine = pairs[pairs["category"].isin(kpos)]
+        kpos = pd.Series(range(len(plan.cats.uids)), index=plan.cats.uids)
+        cpos = pd.Series(range(len(plan.concepts.uids)), index=plan.concepts.uids)
+        mine = pairs[pairs["category"].isin(kpos.index) & pairs["top"].isin(cpos.index)]
+        # each category's shared items, tallied by the concept their other copy's category landed on
+        tally = mine.groupby(["category", "top"], sort=True)["items"].sum().astype(float).reset_index()
+        tally["share"] = tally["items"] / tally.groupby("category")["items"].transform("sum")
         votes: dict[int, dict[int, float]] = defaultdict(dict)
-        for cat, group in mine.groupby("category"):
-            tally: dict[int, float] = defaultdict(float)
-            for other, n in zip(group["other"], group["items"]):
-                if other in tops and tops[other] in cpos:
-                    tally[cpos[tops[other]]] += float(n)
-            total = sum(tally.values())
-            if total:
-                votes[kpos[cat]] = {j: n / total for j, n in tally.items()}
-                for j in tally:
-                    if j not in plan.ev.pools[kpos[cat]]:
-                        plan.ev.pools[kpos[cat]].append(j)
+        for cat, top, share in zip(kpos[tally["category"]].tolist(), cpos[tally["top"]].tolist(), tally["share"]):
+            if share > 0:
+                votes[cat][top] = float(share)
+                if top not in plan.ev.pools[cat]:
+                    plan.ev.pools[cat].append(top)
         plan.ev.votes = votes or None
 
 
