@@ -101,3 +101,19 @@ def inspect_default(fn, name):
     import inspect
 
     return inspect.signature(fn).parameters[name].default
+
+
+def test_the_demo_writes_a_config_with_a_password_for_its_owner_only(tmp_path):
+    import stat
+
+    from pipeline.jobs.demo import write_config
+
+    path = tmp_path / "graftwork.toml"
+    path.write_text("# old\n")
+    path.chmod(0o644)
+    write_config(path, CONFIG.format(secret=SECRET), secret=True)
+    assert stat.S_IMODE(path.stat().st_mode) == 0o600
+    assert load_config(path).neo4j.endswith("@db.example:7687")  # `run` accepts it (it refuses 0644)
+    plain = tmp_path / "plain.toml"
+    write_config(plain, "[store]\n", secret=False)
+    assert plain.read_text() == "[store]\n"

@@ -32,8 +32,8 @@ def run_demo(store_path: str | Path, *, data_dir: str | Path = "demo_data", n_it
     config_path = Path(config_path)
     if config_path.exists() and not config_path.read_text(encoding="utf-8").startswith(DEMO_MARK):
         config_path = data_dir / "graftwork.toml"  # never overwrite a user's own config
-    config_path.write_text(demo_config(files, Path(store_path), embedder, config_path.parent, neo4j=neo4j),
-                           encoding="utf-8")
+    write_config(config_path, demo_config(files, Path(store_path), embedder, config_path.parent, neo4j=neo4j),
+                 secret=bool(neo4j) and redact(neo4j) != neo4j)
     say(f"Wrote {config_path} (so `graftwork --config {config_path} run` re-runs this job)")
     summary = run_pipeline(load_config(config_path), out=out)
     with open_store(store_path, neo4j=neo4j, read_only=True) as store:
@@ -53,6 +53,18 @@ def run_demo(store_path: str | Path, *, data_dir: str | Path = "demo_data", n_it
         say(f"  graftwork {where} status")
         say(f"  graftwork --config {config_path} run      (re-run: only what changed is redone)")
     return summary
+
+
+def write_config(path: Path, text: str, *, secret: bool) -> None:
+    """Write a config; one holding a secret (a password in the Neo4j URI) readable by its owner only, as `run`
+    requires, also when the file existed before with wider rights."""
+    if not secret:
+        path.write_text(text, encoding="utf-8")
+        return
+    fd = os.open(path, os.O_WRONLY | os.O_CREAT | os.O_TRUNC, 0o600)
+    os.fchmod(fd, 0o600)
+    with os.fdopen(fd, "w", encoding="utf-8") as fh:
+        fh.write(text)
 
 
 def demo_config(files, store_path: Path, embedder: str, base: Path, *, neo4j: str | None = None) -> str:
