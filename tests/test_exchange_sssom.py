@@ -158,3 +158,18 @@ def test_read_sssom_gives_file_line_numbers_and_propagates_set_slots(tmp_path):
     assert t.curie_map == {"a": "http://a/"}
     assert [line for line, _ in t.rows] == [5, 7]
     assert t.rows[0][1]["mapping_justification"] == "semapv:ManualMappingCuration"
+
+
+def test_an_import_leaves_its_decisions_in_the_edge_history(tmp_path):
+    store = tiny_layer(tmp_path)
+    (tmp_path / "no.csv").write_text("source_scheme,source_code,concept_code,status,note\n"
+                                     "shop,s3,B1,rejected,wrong shelf\n")
+    with open_store(store) as s:
+        res = import_mappings(s, tmp_path / "no.csv", by="rowan")
+        hist = s.frame("review_events_category", category="shop:s3")
+        again = import_mappings(s, tmp_path / "no.csv", by="rowan")
+        after = s.frame("review_events_category", category="shop:s3")
+    assert res["history"] >= 1
+    mine = hist[hist["actor"] == "rowan"]
+    assert list(zip(mine["action"], mine["concept"], mine["note"])) == [("rejected", "ref:B1", "wrong shelf")]
+    assert again["history"] == 0 and len(after) == len(hist)  # an unchanged re-import is not news

@@ -84,11 +84,36 @@ def import_mappings(store: Store, path: str | Path, *, fmt: str | None = None, b
             store.run("machine_edges_clear", uids=accepted_cats, reference=reference)
         if writes:
             store.run("import_decisions_create", rows=writes)
+        summary["history"] = _record_history(store, writes, have, accepted_cats, decided_by, path)
         if cats:
             place(store, categories=cats, reference=reference)
             placed = store.frame("count_placed", reference=reference)
             summary["items_placed"] = int(placed["items"].iloc[0]) if len(placed) else 0
     return summary
+
+
+def _record_history(store: Store, writes: list[dict], have: dict, accepted_cats: list[str], by: str, path) -> int:
+    """The audit trail of the import: one event per imported decision (as a steward's would be), and one
+    `superseded` event per machine edge an accepted import replaced. Returns how many events were written."""
+    import pandas as pd
+
+    from pipeline.review.events import now_iso, write_event_table
+
+    written = {(w["category"], w["concept"]) for w in writes}
+    accepted = set(accepted_cats)
+    rows = [{"action": w["status"], "category": w["category"], "concept": w["concept"], "status": w["status"],
+             "status_before": (have.get((w["category"], w["concept"])) or [("", "")])[0][0], "score": w["score"],
+             "rank": w["rank"], "concept_hash": "", "note": w["note"]} for w in writes]
+    rows += [{"action": "superseded", "category": cat, "concept": con, "status": "", "status_before": st,
+              "score": None, "rank": None, "concept_hash": "", "note": f"imported from {Path(path).name}"}
+             for (cat, con), states in sorted(have.items()) if cat in accepted and (cat, con) not in written
+             for st, _ in states if st in ("auto", "proposed")]
+    if not rows:
+        return 0
+    table = pd.DataFrame(rows)
+    table["rank"] = table["rank"].astype("Int64")
+    table["score"] = pd.to_numeric(table["score"], errors="coerce")
+    return write_event_table(store, table, actor=by, at=now_iso())
 
 
 def _check(store: Store, cw: Crosswalk, sources: list[str], reference: str, overrides: dict[str, str]) -> list:

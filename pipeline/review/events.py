@@ -106,7 +106,7 @@ def record_machine_edges(store: Store, rows: Iterable[dict], run_id: str, *,
 
 def write_event_table(store: Store, table: pd.DataFrame, *, run_id: str = "", actor: str = "", at: str) -> int:
     """Append the events in `table` (columns action, category, concept, status, status_before, score, rank,
-    concept_hash), stamped with one time and run, in row order (their `seq`)."""
+    concept_hash, and optionally note), stamped with one time, run and actor, in row order (their `seq`)."""
     if table.empty:
         return 0
     n = len(table)
@@ -118,7 +118,8 @@ def write_event_table(store: Store, table: pd.DataFrame, *, run_id: str = "", ac
         "score": pa.array(table["score"].to_numpy(dtype="float64"), mask=table["score"].isna().to_numpy()),
         "rank": pa.array(table["rank"].astype("float64").fillna(0).to_numpy(dtype="int64"),
                          mask=table["rank"].isna().to_numpy()),
-        "run_id": [run_id or ""] * n, "actor": [actor or ""] * n, "note": [""] * n,
+        "run_id": [run_id or ""] * n, "actor": [actor or ""] * n,
+        "note": table["note"].fillna("").tolist() if "note" in table else [""] * n,
         "concept_hash": table["concept_hash"].tolist(), "ref": [""] * n,
     }
     arrow = pa.table(cols, schema=_SCHEMA)
