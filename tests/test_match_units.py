@@ -168,6 +168,27 @@ def test_evidence_text_is_the_json_of_the_rounded_features():
 
     from pipeline.match.map_job import _evidence_json
 
-    f = np.array([0.123456, 1.0, 0.5, 0.0, 1e-6, 0.99999, -0.25, 0.3333333, 0.6666666, 1 / 7])
+    f = np.array([0.123456, 1.0, 0.5, 0.0, 1e-6, 0.99999, -0.25, 0.3333333, 0.6666666, 1 / 7, 2 / 3])
+    assert len(f) == len(FEATURES)
     assert json.loads(_evidence_json(f)) == {n: round(float(v), 4) for n, v in zip(FEATURES, f)}
     assert _evidence_json(f) == json.dumps({n: round(float(v), 4) for n, v in zip(FEATURES, f)}, sort_keys=True)
+
+
+def test_a_decided_sibling_pulls_the_undecided_ones_to_its_region():
+    # reference: R > {A, B} and S > {C}; categories P > {k1 (decided on A), k2 (unsure between B and C)}
+    concepts = _view([
+        ("r", "R", "Trade", 1, False, None), ("a", "A", "Agents", 2, True, "r"), ("b", "B", "Brokers", 2, True, "r"),
+        ("s", "S", "Retail", 1, False, None), ("c", "C", "Shops", 2, True, "s"),
+    ])
+    cats = _view([("p", "P", "Sales", 1, False, None), ("k1", "K1", "Agents", 2, True, "p"),
+                  ("k2", "K2", "Intermediaries", 2, True, "p")])
+    text = [[0.5, 0.1, 0.1, 0.5, 0.1], [0.1, 0.9, 0.1, 0.1, 0.1], [0.1, 0.1, 0.60, 0.1, 0.62]]
+    model = ScoringModel(weights={"text": 10.0, "siblings": 2.0}, bias=-5.0)
+    alone = decide(cats, concepts, _evidence(text), model)
+    assert alone[2].concepts[0] == 4  # "C" on text alone
+    ev = _evidence(text)
+    ev.decided = {1: 1}  # a person accepted K1 -> A
+    ranked = decide(cats, concepts, ev, model)
+    assert ranked[2].concepts[0] == 2  # "B", beside A under R
+    assert ranked[2].features[0][FEATURES.index("siblings")] == 1.0
+    assert ranked[0].features[0][FEATURES.index("siblings")] == 0.0  # P has no siblings

@@ -17,7 +17,7 @@ from pipeline.match.hierarchy_view import HierarchyView
 from pipeline.match.lexical_batch import LabelTable, pool_lexical
 from pipeline.match.lexical_overlap import word_weights
 
-T, LEX, MEM, PAR, DEP, INS, SIG_PATH, SIG_LABEL, SIG_GLOSS, ROLE = (FEATURES.index(f) for f in FEATURES)
+T, LEX, MEM, PAR, DEP, INS, SIG_PATH, SIG_LABEL, SIG_GLOSS, ROLE, SIB = (FEATURES.index(f) for f in FEATURES)
 
 
 @dataclass
@@ -35,6 +35,7 @@ class Evidence:
     word_weights: dict | None = None
     text_mix: dict[str, float] | None = None  # text = sum of weight * signal cosine (the weights of stack_signals)
     label_table: "LabelTable | None" = None  # tokenised labels shared by the sources of one run
+    decided: dict[int, int] | None = None  # category -> concept of a person's accepted edge (the siblings feature)
 
 
 @dataclass
@@ -61,6 +62,7 @@ def decide(cats: HierarchyView, concepts: HierarchyView, ev: Evidence, model: Sc
     region = [[j] if not concepts.is_leaf[j] or not concepts.parents[j] else list(concepts.parents[j])
               for j in range(len(concepts.uids))]
     votes = _vote_lookup(ev.votes, len(concepts.uids))
+    family = _decided_siblings(cats, ev.decided or {}, region)
     c_depth = np.array(concepts.depth, dtype=np.int64)
     c_leaf = np.array(concepts.is_leaf, dtype=bool)
     margin = tie_margin * _text_weight(model)
@@ -79,7 +81,8 @@ def decide(cats: HierarchyView, concepts: HierarchyView, ev: Evidence, model: Sc
             # pools are left-packed: trim to this block's longest, so one long pool does not widen every block
             c = c[:, : max(int((c >= 0).sum(axis=1).max()), 1)]
             valid = c >= 0
-            f = _features(rows, c, valid, ev, cats, lex, rel, region, chosen, votes, depth_prior, c_depth, c_leaf)
+            f = _features(rows, c, valid, ev, cats, lex, rel, region, chosen, votes, depth_prior, c_depth, c_leaf,
+                          family)
             logits = model.logit(f.reshape(-1, len(FEATURES)), disabled).reshape(c.shape)
             logits = np.where(valid, logits, -np.inf)
             order = np.lexsort((np.where(valid, c, np.iinfo(np.int64).max), -logits), axis=1)
@@ -172,7 +175,23 @@ def _gather_dot(queries: np.ndarray, refs: np.ndarray, rows: np.ndarray, c: np.n
     return np.einsum("rkd,rd->rk", refs[np.maximum(c, 0)], queries[rows])
 
 
-def _features(rows, c, valid, ev, cats, lex, rel, region, chosen, votes, depth_prior, c_depth, c_leaf):
+def _decided_siblings(cats: HierarchyView, decided: dict[int, int], region: list[list[int]]) -> dict[int, list]:
+    """Category -> [(region root, weight)] from its decided siblings, each sibling weighing 1 / their number."""
+    if not decided:
+        return {}
+    children: dict[int, list[int]] = {}
+    for ci, ps in enumerate(cats.parents):
+        for p in ps:
+            children.setdefault(p, []).append(ci)
+    out: dict[int, list] = {}
+    for ci, ps in enumerate(cats.parents):
+        sibs = {s for p in ps for s in children.get(p, ()) if s != ci and s in decided}
+        if sibs:
+            out[ci] = [(a, 1.0 / len(sibs)) for s in sorted(sibs) for a in region[decided[s]][:1]]
+    return out
+
+
+def _features(rows, c, valid, ev, cats, lex, rel, region, chosen, votes, depth_prior, c_depth, c_leaf, family):
     b, width = c.shape
     f = np.empty((b, width, len(FEATURES)))
     safe = np.maximum(c, 0)
@@ -218,6 +237,21 @@ def _features(rows, c, valid, ev, cats, lex, rel, region, chosen, votes, depth_p
     f[:, :, DEP] = depth_prior[cat_depth[:, None], c_depth[safe]] if depth_prior is not None else NEUTRAL["depth"]
     cat_leaf = np.array([cats.is_leaf[ci] for ci in rows], dtype=bool)
     f[:, :, ROLE] = (c_leaf[safe] == cat_leaf[:, None]).astype(np.float64)
+    f[:, :, SIB] = NEUTRAL["siblings"]
+    if family:
+        owner, tops, weight = [], [], []
+        for r, ci in enumerate(rows):
+            for a, w in family.get(ci, ()):
+                owner.append(r)
+                tops.append(a)
+                weight.append(w)
+        if owner:
+            owner_a, tops_a = np.array(owner), np.array(tops)
+            under = (tops_a[:, None] == c[owner_a]) | rel.is_ancestor(
+                np.broadcast_to(tops_a[:, None], c[owner_a].shape), safe[owner_a])
+            share = np.zeros((b, width))
+            np.add.at(share, owner_a, under * np.array(weight)[:, None])
+            f[:, :, SIB] = share
     f[:, :, INS] = 0.0
     if votes is not None:
         keys, vals, n_concepts = votes

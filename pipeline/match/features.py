@@ -11,7 +11,10 @@
 - instance: share of the category's shared items (same item key in another source) placed on this concept there;
 - path, label, gloss: the separate cosines behind `text` (path~path, label~label, label~gloss), so a learned model can
   weigh them for the taxonomies at hand (the default weights leave them at 0: they are already inside `text`);
-- role: 1 when the concept's leaf/inner role matches the category's, else 0 (default weight 0).
+- role: 1 when the concept's leaf/inner role matches the category's, else 0 (default weight 0);
+- siblings: share of the category's siblings with a person's accepted edge whose concept region (the concept, or a
+  leaf's parent, and what lies under it) holds the candidate; 0 while no sibling is decided. Decisions on a few
+  children so pull the rest of the family, in this run and every later one.
 """
 
 from __future__ import annotations
@@ -20,12 +23,13 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-FEATURES = ("text", "lexical", "members", "parent", "depth", "instance", "path", "label", "gloss", "role")
-NEUTRAL = {"parent": 0.5, "depth": 0.5, "instance": 0.0, "role": 0.5}
+FEATURES = ("text", "lexical", "members", "parent", "depth", "instance", "path", "label", "gloss", "role", "siblings")
+NEUTRAL = {"parent": 0.5, "depth": 0.5, "instance": 0.0, "role": 0.5, "siblings": 0.0}
 
 # Default logistic weights, used until a model is learned from labelled edges (`map --learn`). Set by reasoning,
 # not fitted: text dominates; each other feature can move a close call but not overturn a clear text winner.
-DEFAULT_WEIGHTS = {"text": 12.0, "lexical": 2.0, "members": 3.0, "parent": 1.0, "depth": 1.5, "instance": 2.0}
+DEFAULT_WEIGHTS = {"text": 12.0, "lexical": 2.0, "members": 3.0, "parent": 1.0, "depth": 1.5, "instance": 2.0,
+                   "siblings": 2.0}
 DEFAULT_BIAS = -12.0
 
 

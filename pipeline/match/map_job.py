@@ -306,7 +306,7 @@ def _evidence_for(store, source, reference, cats, concepts, qmats, cmats, settin
     signals = {b if a == "label" and b == "gloss" else a: (qmats[a], cmats[b]) for a, b, _ in DEFAULT_SIGNALS}
     mix = {b if a == "label" and b == "gloss" else a: w for a, b, w in DEFAULT_SIGNALS}
     ev = Evidence(pools=pools, q_text=q, r_text=r, members=mem_matrix, concept_gloss=cmats["gloss"],
-                  signals=signals, text_mix=mix)
+                  signals=signals, text_mix=mix, decided=dict(fixed))
     return ev, fixed, excluded
 
 
