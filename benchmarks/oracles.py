@@ -12,7 +12,8 @@ tunes anything: the tables are only read, and the same commands run on each.
 
 With `--learn-fraction F` (needs `graftwork map --learn FILE`; skipped with a note when this build has none): the
 answer key's source codes are split at random (seeded) into F to learn from and 1-F to score; the unsupervised
-figure is scored on the same held-out codes, so the two are comparable.
+figure is scored on the same held-out codes, so the two are comparable. The same share is also imported as accepted
+decisions into a copy of the store (`import mappings`), mapped plainly, and scored on the same held-out codes.
 """
 
 from __future__ import annotations
@@ -144,11 +145,30 @@ def run_learn(store: Path, key: Path, work: Path, source: str, fraction: float, 
     learn_rows, held_rows = split_key(rows, fraction, seed)
     learn_csv, held_csv = write_key(learn_rows, work / "learn.csv"), write_key(held_rows, work / "held_out.csv")
     before, _ = evaluate(store, held_csv, work / "held_out_unsupervised", source)
+    decided = run_decided(store, learn_rows, held_csv, work, source, times)
     _, times["map_learn"] = graftwork(store, "map", "--source", source, option, str(learn_csv))
     after, _ = evaluate(store, held_csv, work / "held_out_learned", source)
     b, a = before["metrics"], after["metrics"]
     return {"fraction": fraction, "seed": seed, "learned_codes": len({r["source_code"] for r in learn_rows}),
-            "held_out_codes": a["scored"], "unsupervised": b, "learned": a, "learn_gain": a["top1"] - b["top1"]}
+            "held_out_codes": a["scored"], "unsupervised": b, "learned": a, "learn_gain": a["top1"] - b["top1"],
+            "decided": decided["metrics"], "decided_gain": decided["metrics"]["top1"] - b["top1"]}
+
+
+def run_decided(store: Path, learn_rows: list[dict], held_csv: Path, work: Path, source: str, times: dict) -> dict:
+    """The same labels as a steward's accepted decisions instead (`import mappings`), then a plain `map`, on a copy
+    of the store: how much the decided codes help the others (parent context, the siblings feature)."""
+    copy = work / "decided.lbug"
+    shutil.copy(store, copy)
+    sheet = work / "decided.csv"
+    with open(sheet, "w", newline="", encoding="utf-8") as fh:
+        w = csv.writer(fh)
+        w.writerow(["source_scheme", "source_code", "concept_code", "status"])
+        for r in learn_rows:
+            w.writerow([source, r["source_code"], r["reference_code"], "accepted"])
+    _, times["import_decided"] = graftwork(copy, "import", "mappings", str(sheet), "--by", "benchmark")
+    _, times["map_decided"] = graftwork(copy, "map", "--source", source)
+    report, _ = evaluate(copy, held_csv, work / "held_out_decided", source)
+    return report
 
 
 def check_targets(result: dict) -> list[dict]:
@@ -187,7 +207,8 @@ def print_report(results: list[dict]) -> None:
         if learn and "learn_gain" in learn:
             print(f"{r['table']}: learn on {learn['learned_codes']} codes, held-out {learn['held_out_codes']}: "
                   f"top-1 {learn['unsupervised']['top1']:.3f} -> {learn['learned']['top1']:.3f} "
-                  f"(gain {learn['learn_gain']:+.3f})")
+                  f"(gain {learn['learn_gain']:+.3f}); the same codes as accepted decisions instead: "
+                  f"{learn['decided']['top1']:.3f} (gain {learn['decided_gain']:+.3f})")
         abl = r.get("ablation")
         if abl:
             print(f"\n{r['table']} ablation (each feature switched off in turn; deltas vs all on)")
