@@ -77,6 +77,19 @@ def test_rollup_at_depth_two_matches_pandas(case):
     assert sum(v for (c, _), v in got.items() if c.count(".") == 1) > 500  # top level (HG.n): most of 1500
 
 
+def test_rollup_at_depth_four_and_below_a_concept_matches_pandas(case):
+    want = _expected_rollup(case, 4)
+    with open_store(case["store"], read_only=True) as s:
+        got = _got_rollup(rollup(s, depth=4), case["sources"])
+        top = max({c for c, _ in want if c.count(".") == 1}, key=lambda c: sum(v for (k, _), v in want.items()
+                                                                                if k == c))
+        under = _got_rollup(rollup(s, concept=top, depth=2), case["sources"])
+    assert got == want
+    assert any(c.count(".") == 4 for c, _ in got)  # level four is reached
+    assert under == {(c, src): v for (c, src), v in want.items() if c == top or c.startswith(top + ".")
+                     and c.count(".") <= top.count(".") + 2}
+
+
 def test_rollup_filtered_by_source_and_attribute_matches_pandas(case):
     placed = case["placed"]
     brand = placed.loc[placed.brand_line != "", "brand_line"].value_counts().index[0]

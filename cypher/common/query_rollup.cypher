@@ -1,5 +1,7 @@
 // query_rollup: items per reference concept, counting everything placed on the concept or any descendant, per
 // source, with analyst filters.
+// Kept as the engine-only reference: rollup/subtree now count with pipeline/query/ancestry.py (one pass over the
+// placements, no variable-length path), and tests/test_query_ancestry.py compares the two.
 // reads: Concept, BROADER, PLACED_IN, Item. writes: nothing. read-only, safe to re-run.
 // parameters: $reference; $min_depth, $max_depth (concept depth window); $root (concept uid, or '' for the whole
 // hierarchy); $uids (only these concepts; [] = no restriction); $statuses (placement statuses that count, e.g.

@@ -1,5 +1,6 @@
 // query_rollup_status: like query_rollup, but each item under a concept is counted once under the strongest
 // status it was placed by there ('accepted' over 'auto'), for coverage views by top-level concept.
+// Kept as the engine-only reference for coverage_by_top, which now counts with ancestry.rollup_status_long.
 // reads: Concept, BROADER, PLACED_IN, Item. writes: nothing. read-only, safe to re-run.
 // parameters: $reference, $min_depth, $max_depth, $statuses, $sources ([] = all), $attributes (['{'] = no filter).
 MATCH (k:Concept)

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import pandas as pd
 
+from pipeline.query.ancestry import rollup_status_long
 from pipeline.query.filters import Filters, check_filters, pick_reference
 from pipeline.query.rollup import natural_key
 from pipeline.store import Store
@@ -43,8 +44,7 @@ def coverage_by_top(store: Store, *, reference: str | None = None, filters: Filt
     (`accepted` when any placement under the concept is accepted, else `auto`): long form for charts."""
     filters = check_filters(store, filters)
     reference = pick_reference(store, reference)
-    long = store.frame("query_rollup_status", reference=reference, min_depth=depth, max_depth=depth,
-                       **filters.params())
+    long = rollup_status_long(store, reference=reference, min_depth=depth, max_depth=depth, params=filters.params())
     if long.empty:
         return pd.DataFrame(columns=["concept_code", "concept_label", "source", "placed_by", "items"])
     long["items"] = long["items"].astype(int)

@@ -8,6 +8,7 @@ import pandas as pd
 
 from pipeline.errors import NotFound
 from pipeline.ingest.graph_writer import node_uid
+from pipeline.query.ancestry import rollup_long
 from pipeline.query.filters import LIVE, Filters, check_filters, pick_reference
 from pipeline.store import Store
 
@@ -19,7 +20,8 @@ def rollup(store: Store, *, concept: str | None = None, depth: int = 1, referenc
     """One row per concept: code, label, depth, one column per source, and `total`.
 
     Without `concept`: the top `depth` levels of the reference. With `concept`: that concept and `depth` levels
-    below it. Concepts with no items are left out. `filters` narrows sources, edge statuses and item attributes;
+    below it. Concepts with no items are left out. Counted by `pipeline.query.ancestry.rollup_long` (one pass over
+    the placements); `cypher/common/query_rollup.cypher` is the engine-only form the tests compare it with. `filters` narrows sources, edge statuses and item attributes;
     `statuses` (older form) overrides the filters' statuses. Statuses outside accepted/auto place nothing and
     are ignored.
     """
@@ -32,8 +34,7 @@ def rollup(store: Store, *, concept: str | None = None, depth: int = 1, referenc
     if concept:
         found = concept_row(store, reference, concept)
         root, lo, hi = found["uid"], found["depth"], found["depth"] + depth
-    long = store.frame("query_rollup", reference=reference, min_depth=lo, max_depth=hi, root=root, uids=[],
-                       **filters.params())
+    long = rollup_long(store, reference=reference, min_depth=lo, max_depth=hi, root=root, params=filters.params())
     return wide_counts(long, filters.sources)
 
 

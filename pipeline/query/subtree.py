@@ -5,6 +5,7 @@ from __future__ import annotations
 import pandas as pd
 
 from pipeline.errors import NotFound
+from pipeline.query.ancestry import rollup_long
 from pipeline.query.filters import Filters, check_filters, pick_reference
 from pipeline.query.reference_tree import ReferenceTree
 from pipeline.query.rollup import wide_counts
@@ -31,8 +32,8 @@ def subtree(store: Store, concept: str, *, depth: int = 1, reference: str | None
     rows += [("descendant", hop, c) for c, hop in _tree_order(tree, concept, {c for c, _ in below})]
     codes = [c for _, _, c in rows]
     uids = [tree.uid(c) for c in codes]
-    counts = wide_counts(store.frame("query_rollup", reference=reference, min_depth=0, max_depth=10_000, root="",
-                                     uids=uids, **filters.params()), filters.sources)
+    counts = wide_counts(rollup_long(store, reference=reference, min_depth=0, max_depth=10_000, uids=uids,
+                                     params=filters.params()), filters.sources)
     mapped = store.frame("query_concept_mappings", uids=uids, statuses=list(filters.statuses))
     n_cats = mapped.groupby("concept_code")["categories"].sum().astype(int) if len(mapped) else pd.Series(dtype=int)
     by_code = counts.set_index("concept_code") if len(counts) else None
