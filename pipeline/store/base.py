@@ -52,6 +52,21 @@ class Store(abc.ABC):
     def delete_vectors(self, kind: str, owners: Sequence[str]) -> None:
         """Drop every signal's vectors for these owners."""
 
+    def put_vector_batches(self, batches: Sequence[tuple[str, str, str, Sequence[str], Sequence[str], np.ndarray]]
+                           ) -> None:
+        """`put_vectors(*batch)` for each batch, all in one transaction; engines may override it to write them
+        in one statement (LadybugDB must: rolling back several COPYs into one table broke its key index)."""
+        with self.transaction():
+            for batch in batches:
+                self.put_vectors(*batch)
+
+    def vector_hashes(self, kind: str, signal: str, owners: Sequence[str] | None = None
+                      ) -> dict[str, tuple[str, str]]:
+        """owner -> (input hash, embedder id) of the stored vectors of `owners` (None: of every owner); owners
+        without one are absent. What the embed job compares to skip unchanged texts; engines may override it
+        to skip reading the vectors."""
+        return {o: (h, e) for o, h, e in self.get_vectors(kind, signal, owners=owners).iter_rows()}
+
     @abc.abstractmethod
     def close(self) -> None: ...
 

@@ -11,6 +11,7 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 import pyarrow as pa
+import pyarrow.compute as pc
 
 from pipeline.errors import NotAStore, StoreLocked
 from pipeline.store import access_lock
@@ -57,10 +58,11 @@ class LadybugStore(Store):
                 self._conn = ladybug.Connection(self._db)
                 return
             except RuntimeError as exc:
-                if read_only and "recovery is pending" in str(exc) and not recovered:
-                    # A job was killed before its log was checkpointed: a read-write open replays the committed
-                    # transactions (and drops the uncommitted ones); then the read-only open works. The replay is
-                    # a write, so it takes the lock exclusively for that moment.
+                if read_only and _needs_recovery(str(exc)) and not recovered:
+                    # A job was killed before its log was checkpointed (or while writing it, leaving a torn tail):
+                    # a read-write open replays the committed transactions and drops the rest; then the read-only
+                    # open works. No writer is alive (this open holds the shared lock), and the replay is a
+                    # write, so it takes the lock exclusively for that moment.
                     recovered = True
                     self._release_lock()
                     writer = access_lock.acquire(p, exclusive=True, timeout=max(lock_timeout, 30.0))
@@ -153,27 +155,22 @@ class LadybugStore(Store):
 
     # -- vectors ------------------------------------------------------------------------------------------------
     def put_vectors(self, kind, signal, embedder, owners, input_hashes, vectors) -> None:
-        if len(owners) == 0:
+        self.put_vector_batches([(kind, signal, embedder, owners, input_hashes, vectors)])
+
+    def put_vector_batches(self, batches) -> None:
+        tables = [_vector_table(*b) for b in batches if len(b[3])]
+        if not tables:
             return
-        vectors = np.ascontiguousarray(vectors, dtype=np.float32)
-        dim = vectors.shape[1]
-        keys = [_vector_key(kind, signal, o) for o in owners]
-        # One contiguous buffer sliced into fixed-size binary values: no per-row Python objects.
-        data = pa.py_buffer(vectors.tobytes())
-        offsets = pa.py_buffer(np.arange(0, (len(keys) + 1) * dim * 4, dim * 4, dtype=np.int32).tobytes())
-        blobs = pa.Array.from_buffers(pa.binary(), len(keys), [None, offsets, data])
-        table = pa.table(
-            {
-                "key": keys,
-                "owner": list(owners),
-                "kind": [kind] * len(keys),
-                "signal": [signal] * len(keys),
-                "embedder": [embedder] * len(keys),
-                "input_hash": list(input_hashes),
-                "dim": pa.array(np.full(len(keys), dim, dtype=np.int64)),
-                "vec": blobs,
-            }
-        )
+        table = pa.concat_tables(tables)
+        keys = table.column("key").to_pylist()
+        if len(set(keys)) != len(keys):  # a key in two batches: the later batch's row replaces the earlier one
+            last = {k: i for i, k in enumerate(keys)}
+            table = table.take(pa.array(sorted(last.values()), pa.int64()))
+            keys = table.column("key").to_pylist()
+        # One DELETE and one COPY per transaction, always: LadybugDB 0.22 left its primary-key index pointing at
+        # missing rows after rolling back a transaction that had run two COPYs into Vector
+        # (tests/test_embed_job_speedpaths.py). The cost here is the commit, not the COPY: the engine rewrites
+        # the Vector column chunks it appends to, so callers send many batches at once (embed/vector_sink.py).
         with self.transaction():
             self._execute(load_query("vectors_delete_keys", ENGINE), {"keys": keys})
             self._execute(load_query("vectors_copy", ENGINE), {"rows": table})
@@ -182,22 +179,32 @@ class LadybugStore(Store):
         if owners is None:
             res = self._execute(load_query("vectors_read", ENGINE), {"kind": kind, "signal": signal})
         else:
-            keys = [_vector_key(kind, signal, o) for o in owners]
+            keys = _vector_keys(kind, signal, pa.array(list(owners), pa.string()))
             res = self._execute(load_query("vectors_read_keys", ENGINE), {"keys": keys})
         table = res.get_as_arrow()
         if table.num_rows == 0:
             return VectorSet([], [], [], np.zeros((0, 0), dtype=np.float32))
-        dims = set(table.column("dim").to_pylist())
+        dims = pc.unique(table.column("dim")).to_pylist()
         if len(dims) != 1:
             raise RuntimeError(f"vectors of {kind}/{signal} have mixed dimensions {sorted(dims)}; re-run embed")
-        blobs = table.column("vec").combine_chunks()
-        matrix = np.frombuffer(b"".join(blobs.to_pylist()), dtype=np.float32).reshape(table.num_rows, dims.pop())
         return VectorSet(
             table.column("owner").to_pylist(),
             table.column("input_hash").to_pylist(),
             table.column("embedder").to_pylist(),
-            matrix,
+            _blob_matrix(table.column("vec"), table.num_rows, dims[0]),
         )
+
+    def vector_hashes(self, kind, signal, owners=None) -> dict[str, tuple[str, str]]:
+        if owners is None:
+            res = self._execute(load_query("vectors_hashes", ENGINE), {"kind": kind, "signal": signal})
+        elif len(owners) == 0:
+            return {}
+        else:
+            keys = _vector_keys(kind, signal, pa.array(list(owners), pa.string()))
+            res = self._execute(load_query("vectors_hashes_keys", ENGINE), {"keys": keys})
+        table = res.get_as_arrow()
+        return dict(zip(table.column("owner").to_pylist(),
+                        zip(table.column("input_hash").to_pylist(), table.column("embedder").to_pylist())))
 
     def delete_vectors(self, kind, owners) -> None:
         if owners:
@@ -213,14 +220,59 @@ class LadybugStore(Store):
         self._release_lock()
 
 
-def _vector_key(kind: str, signal: str, owner: str) -> str:
-    return f"{kind}\x1f{signal}\x1f{owner}"
+def _vector_table(kind, signal, embedder, owners, input_hashes, vectors) -> pa.Table:
+    """The rows of one `put_vectors` batch as the Vector table takes them (COPY from Arrow)."""
+    vectors = np.ascontiguousarray(vectors, dtype=np.float32)
+    n, dim = vectors.shape
+    if len(owners) != n or len(input_hashes) != n:
+        raise ValueError(f"{len(owners)} owners, {len(input_hashes)} hashes and {n} vectors for {kind}/{signal}")
+    owners = pa.array(list(owners), pa.string())
+    # One contiguous buffer sliced into fixed-size binary values: no per-row Python objects.
+    data = pa.py_buffer(vectors.tobytes())
+    offsets = pa.py_buffer(np.arange(0, (n + 1) * dim * 4, dim * 4, dtype=np.int32).tobytes())
+    return pa.table({
+        "key": pa.array(_vector_keys(kind, signal, owners), pa.string()),
+        "owner": owners,
+        "kind": pa.repeat(pa.scalar(kind, pa.string()), n),
+        "signal": pa.repeat(pa.scalar(signal, pa.string()), n),
+        "embedder": pa.repeat(pa.scalar(embedder, pa.string()), n),
+        "input_hash": pa.array(list(input_hashes), pa.string()),
+        "dim": pa.array(np.full(n, dim, dtype=np.int64)),
+        "vec": pa.Array.from_buffers(pa.binary(), n, [None, offsets, data]),
+    })
+
+
+def _vector_keys(kind: str, signal: str, owners: pa.Array) -> list[str]:
+    """The Vector primary key `kind<US>signal<US>owner` (US = \\x1f) of every owner, joined by Arrow."""
+    return pc.binary_join_element_wise(f"{kind}\x1f{signal}", owners, "\x1f").to_pylist()
+
+
+def _blob_matrix(blobs: pa.ChunkedArray, rows: int, dim: int) -> np.ndarray:
+    """The float32 (rows, dim) matrix held in a column of BLOBs of `dim` floats each: read straight from the
+    Arrow buffers (no bytes object per row) when the values lie back to back, else joined value by value."""
+    arr = blobs.combine_chunks() if isinstance(blobs, pa.ChunkedArray) else blobs
+    width = dim * 4
+    if arr.null_count == 0 and (pa.types.is_binary(arr.type) or pa.types.is_large_binary(arr.type)):
+        offset_type = np.int64 if pa.types.is_large_binary(arr.type) else np.int32
+        offsets = np.frombuffer(arr.buffers()[1], dtype=offset_type, count=len(arr) + 1,
+                                offset=arr.offset * np.dtype(offset_type).itemsize)
+        if np.all(np.diff(offsets) == width):
+            flat = np.frombuffer(arr.buffers()[2], dtype=np.uint8, count=rows * width, offset=int(offsets[0]))
+            return flat.view(np.float32).reshape(rows, dim)  # read-only, as np.frombuffer always was
+    return np.frombuffer(b"".join(arr.to_pylist()), dtype=np.float32).reshape(rows, dim)
+
+
+def _needs_recovery(text: str) -> bool:
+    return "recovery is pending" in text or "WAL file is corrupted" in text
 
 
 def _translate_open_error(path, exc: RuntimeError) -> Exception:
     text = str(exc)
     if re.search(r"lock", text, re.IGNORECASE):
         return StoreLocked(f"{path}: another process holds this store for writing ({text})")
+    if "WAL file is corrupted" in text:
+        return NotAStore(f"{path}: its write-ahead log ({path}.wal) is damaged and could not be replayed ({text}); "
+                         f"moving that file away returns the store to its last checkpoint, losing what came after")
     if "not a valid" in text.lower() or "corrupt" in text.lower() or "magic" in text.lower():
         return NotAStore(f"{path}: not a graftwork store ({text})")
     return NotAStore(f"{path}: cannot open store ({text})")
