@@ -116,8 +116,10 @@ def test_readers_share_the_store_and_a_writer_waits_for_them(tmp_path):
         out = _in_other_process(_READ_ONCE.format(path=str(path)))
         assert "READ v" in out.stdout, out.stdout + out.stderr  # two readers at once
         writer = subprocess.Popen([sys.executable, "-c", "from pipeline.store import open_store; "
+                                   "print('IMPORTED', flush=True); "
                                    f"s = open_store({str(path)!r}); s.run('meta_set', key='k', value='w'); "
                                    "s.close(); print('WROTE')"], stdout=subprocess.PIPE, text=True)
+        assert writer.stdout.readline().strip() == "IMPORTED"  # imports alone take seconds on a busy machine
         time.sleep(2)
         assert writer.poll() is None  # a writer waits while a reader has the store open ...
     assert writer.communicate(timeout=60)[0].strip() == "WROTE"  # ... and writes once it is closed

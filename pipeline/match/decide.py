@@ -59,8 +59,7 @@ def decide(cats: HierarchyView, concepts: HierarchyView, ev: Evidence, model: Sc
     cand = _candidates(ev, excluded or {})
     lex = _lexical(ev, cats, concepts, cand)
     rel = _Relations(concepts)
-    region = [[j] if not concepts.is_leaf[j] or not concepts.parents[j] else list(concepts.parents[j])
-              for j in range(len(concepts.uids))]
+    region = [concepts.region(j) for j in range(len(concepts.uids))]
     votes = _vote_lookup(ev.votes, len(concepts.uids))
     family = _decided_siblings(cats, ev.decided or {}, region)
     c_depth = np.array(concepts.depth, dtype=np.int64)
@@ -214,8 +213,7 @@ def _features(rows, c, valid, ev, cats, lex, rel, region, chosen, votes, depth_p
         has = np.any(ev.members[rows] != 0, axis=1)
         if has.any():
             f[has, :, MEM] = _gather_dot(ev.members, ev.concept_gloss, rows[has], c[has])
-    # The region a child should land in: the parent's concept, or, when that concept is a leaf of the reference
-    # (a deeper source mapped into a coarser reference), the leaf's own parent, so siblings count.
+    # the region a child should land in (HierarchyView.region of its parent's concept)
     f[:, :, PAR] = NEUTRAL["parent"]
     owner, tops = [], []
     for r, ci in enumerate(rows):

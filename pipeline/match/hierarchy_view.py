@@ -47,7 +47,19 @@ class HierarchyView:
         )
 
     def ancestors(self) -> list[frozenset[int]]:
-        """Strict ancestors of every node, built parents-first (the hierarchy is acyclic: ingest checked it)."""
+        """Strict ancestors of every node, built parents-first (the hierarchy is acyclic: ingest checked it).
+        Computed once per view: the map step asks for them in every pass."""
+        cached = self.__dict__.get("_ancestors")
+        if cached is None:
+            cached = self.__dict__["_ancestors"] = self._build_ancestors()
+        return cached
+
+    def region(self, j: int) -> list[int]:
+        """Where a child of something mapped to node j should land: j's subtree, or, when j is a leaf, its
+        parents' subtrees (a deeper source mapped into a coarser reference: siblings count)."""
+        return [j] if not self.is_leaf[j] or not self.parents[j] else list(self.parents[j])
+
+    def _build_ancestors(self) -> list[frozenset[int]]:
         n = len(self.uids)
         children: list[list[int]] = [[] for _ in range(n)]
         pending = [len(ps) for ps in self.parents]

@@ -36,8 +36,7 @@ def extend_pools(pools: list[list[int]], cats: HierarchyView, concepts: Hierarch
             j = tops.get(p)
             if j is None:
                 continue
-            roots = [j] if not concepts.is_leaf[j] or not concepts.parents[j] else list(concepts.parents[j])
-            for a in roots:
+            for a in concepts.region(j):
                 region.add(a)
                 region.update(below[a])
         if not region or len(region) > max_region:

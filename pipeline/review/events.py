@@ -75,7 +75,6 @@ def record_machine_edges(store: Store, rows: Iterable[dict], run_id: str, *,
     `record_machine_edges(store, rows, run_id, categories=cats.uids)`.
     """
     new = pd.DataFrame(list(rows), columns=["category", "concept", "status", "score", "rank"])
-    new = new[["category", "concept", "status", "score", "rank"]]
     remapped = set(categories or ()) | set(new["category"])
     counts = {"proposed": 0, "withdrawn": 0, "unchanged": 0}
     if not remapped:
