@@ -51,7 +51,7 @@ def main(argv: list[str] | None = None) -> int:
     p.add_argument("--json", metavar="OUT", help="write the figures here")
     p.add_argument("--work", metavar="DIR", help="work folder (default /tmp/graftwork-bench-SCALE; wiped first)")
     p.add_argument("--seed", type=int, default=11)
-    p.add_argument("--profile", action="store_true", help="profile the full build with pyinstrument")
+    p.add_argument("--profile", action="store_true", help="profile the full build and the delta with pyinstrument")
     args = p.parse_args(argv)
     work = Path(args.work or f"/tmp/graftwork-bench-{args.scale}")
     result = run(args.scale, work, seed=args.seed, profile=args.profile)
@@ -101,7 +101,7 @@ def run(scale: str, work: Path, *, seed: int = 11, profile: bool = False) -> dic
     out["delta"] = workload.write_delta(data, scale, seed=seed)
     delta_seconds: list[float] = []
     delta_rows: list[int] = []
-    delta = timed_build(cfg, delta_seconds, delta_rows, False, None)
+    delta = timed_build(cfg, delta_seconds, delta_rows, profile, work / "profile-delta.html")
     out["nightly_delta_wall_s"] = round(delta["wall"], 2)
     out["delta_stage_s"] = delta["seconds"]
     out["delta_mapped_categories"] = sum(c["categories"] for c in delta["stages"]["map"].get("sources", {}).values())

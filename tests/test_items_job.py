@@ -129,8 +129,9 @@ def test_categories_that_received_items_are_marked_to_place(tmp_path, engine):
         _source(tmp_path, s)
         s.run("categories_mark_placed", uids=["shop:g", "shop:w", "shop:t", "shop:x"])  # as after a place run
         ingest_items(s, "shop", p)
-        dirty = {r["uid"] for r in s.rows("categories_pending", scheme="shop") if r["place_dirty"]}
-        assert dirty == {"shop:w", "shop:t"}
+        rows = s.rows("categories_pending", scheme="shop")
+        assert {r["uid"] for r in rows if r["place_new"]} == {"shop:w", "shop:t"}
+        assert not any(r["place_dirty"] for r in rows)  # their edges did not change: placed items stay
 
 
 def test_a_failed_batch_leaves_earlier_batches_whole_and_nothing_of_itself(tmp_path, engine, monkeypatch):

@@ -1,6 +1,6 @@
 // categories_mark_placed: the items of these categories are placed through their current edges.
-// writes: Category.place_dirty. parameters: $uids. safe to re-run.
+// writes: Category.place_dirty, place_new. parameters: $uids. safe to re-run.
 // LadybugDB 0.22 evaluates `x IN $list` by scanning the list for every row (measured: a 5,000-uid list over
 // 300,000 nodes took 25 s), so this override looks each uid up by primary key instead (benchmarks/README.md).
 UNWIND $uids AS u
-MATCH (c:Category {uid: u}) SET c.place_dirty = false
+MATCH (c:Category {uid: u}) SET c.place_dirty = false, c.place_new = false

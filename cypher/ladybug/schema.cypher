@@ -13,7 +13,9 @@ CREATE NODE TABLE IF NOT EXISTS Concept(uid STRING, scheme STRING, code STRING, 
     retired BOOLEAN, content_hash STRING, PRIMARY KEY(uid));
 CREATE NODE TABLE IF NOT EXISTS Category(uid STRING, scheme STRING, code STRING, label STRING, path STRING,
     depth INT64, is_leaf BOOLEAN, retired BOOLEAN, content_hash STRING, mapped_with STRING, place_dirty BOOLEAN,
-    PRIMARY KEY(uid));
+    place_new BOOLEAN, PRIMARY KEY(uid));
+// place_new came after the first stores were made: an older store gains it here (a no-op on a new one).
+ALTER TABLE Category ADD IF NOT EXISTS place_new BOOLEAN;
 CREATE NODE TABLE IF NOT EXISTS Item(uid STRING, source STRING, item_key STRING, title STRING, attributes STRING,
     first_seen STRING, last_seen STRING, PRIMARY KEY(uid));
 CREATE NODE TABLE IF NOT EXISTS Run(id STRING, job STRING, started_at STRING, finished_at STRING, status STRING,

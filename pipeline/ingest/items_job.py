@@ -110,7 +110,7 @@ def _safe_path_code(path_code, text: str, sep: str) -> str:
 
 def _write_batch(store: Store, key: str, batch, now: str, *, fresh_source: bool) -> None:
     """Write one ItemColumns batch in one transaction: new items and their links by bulk copy, stored ones by
-    MERGE, and the place_dirty marks of every category that received an item."""
+    MERGE, and the place_new marks of every category that received an item."""
     n = len(batch)
     uids = pc.binary_join_element_wise(node_uid(key, ""), batch.keys, "")
     items = pa.table({
@@ -144,8 +144,9 @@ def _write_batch(store: Store, key: str, batch, now: str, *, fresh_source: bool)
                 upsert = _merge_attributes(store, upsert, continued)
             store.bulk("items_upsert", upsert, now=now)
             store.bulk("items_file_under", links.filter(pa.array(link_known)))
-        # Durable "to place" marks, committed with the items, so a run killed before placing still places them.
-        store.run("categories_mark_dirty", uids=sorted(pc.unique(links["category"]).to_pylist()))
+        # Durable "to place" marks, committed with the items, so a run killed before placing still places them;
+        # only the new members wait (the category's edges did not change), which keeps a nightly drop cheap.
+        store.run("categories_mark_new", uids=sorted(pc.unique(links["category"]).to_pylist()))
 
 
 def _merge_attributes(store: Store, rows: pa.Table, continued: np.ndarray) -> pa.Table:

@@ -95,7 +95,8 @@ def map_sources(store: Store, *, sources: list[str] | None = None, reference: st
     # choices (or the stored edges of sources not being re-mapped), so the result never depends on an earlier run.
     if "instance" not in settings.disabled and len(plans) and len(all_sources) > 1:
         tops = {u: con for plan in plans.values() for u, con in plan.first_choice().items()}
-        _add_instance_votes(store, plans, tops, reference)
+        remapped = None if only is None else [plan.cats.uids[ci] for plan in plans.values() for ci in plan.todo]
+        _add_instance_votes(store, plans, tops, reference, remapped)
     for key, plan in plans.items():
         summary["sources"][key] = _write(store, plan, settings, model, threshold, run_id)
     return summary
@@ -216,8 +217,12 @@ def _plan(store: Store, source: str, reference: str, concept_side, settings: Map
     return plan
 
 
-def _add_instance_votes(store: Store, plans: dict[str, _Plan], tops: dict[str, str], reference: str) -> None:
-    pairs = store.frame("shared_category_pairs")
+def _add_instance_votes(store: Store, plans: dict[str, _Plan], tops: dict[str, str], reference: str,
+                        remapped: list[str] | None = None) -> None:
+    """Votes for the categories being mapped; `remapped`: their uids, when only some are (an incremental run
+    then reads the shared items of those alone)."""
+    pairs = (store.frame("shared_category_pairs") if remapped is None
+             else store.frame("shared_category_pairs_of", uids=sorted(remapped)))
     if pairs.empty:
         return
     if any(u not in tops for u in pairs["other"]):
@@ -283,7 +288,8 @@ def _evidence_for(store, source, reference, cats, concepts, qmats, cmats, settin
                             signal_queries={b: qmats[a] for a, b, _ in DEFAULT_SIGNALS},
                             index_above=settings.index_above)
     log.info("candidate pools of %s categories: %s search", len(todo), how)
-    members = store.get_vectors("Category", "members", owners=cats.uids)
+    # Only the categories being mapped use their members vector (an incremental run maps a few).
+    members = store.get_vectors("Category", "members", owners=[cats.uids[ci] for ci in todo])
     mem_matrix = None
     if len(members) and "members" not in settings.disabled:
         mem_matrix = np.zeros((len(cats.uids), members.matrix.shape[1]), dtype=np.float32)
