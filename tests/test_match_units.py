@@ -168,7 +168,7 @@ def test_evidence_text_is_the_json_of_the_rounded_features():
 
     from pipeline.match.map_job import _evidence_json
 
-    f = np.array([0.123456, 1.0, 0.5, 0.0, 1e-6, 0.99999, -0.25, 0.3333333, 0.6666666, 1 / 7, 2 / 3])
+    f = np.array([0.123456, 1.0, 0.5, 0.0, 1e-6, 0.99999, -0.25, 0.3333333, 0.6666666, 1 / 7, 2 / 3, 0.25, 0.875])
     assert len(f) == len(FEATURES)
     assert json.loads(_evidence_json(f)) == {n: round(float(v), 4) for n, v in zip(FEATURES, f)}
     assert _evidence_json(f) == json.dumps({n: round(float(v), 4) for n, v in zip(FEATURES, f)}, sort_keys=True)

@@ -17,7 +17,7 @@ from pipeline.match.hierarchy_view import HierarchyView
 from pipeline.match.lexical_batch import LabelTable, pool_lexical
 from pipeline.match.lexical_overlap import word_weights
 
-T, LEX, MEM, PAR, DEP, INS, SIG_PATH, SIG_LABEL, SIG_GLOSS, ROLE, SIB = (FEATURES.index(f) for f in FEATURES)
+T, LEX, MEM, PAR, DEP, INS, SIG_PATH, SIG_LABEL, SIG_GLOSS, ROLE, SIB, NEI, ALI = (FEATURES.index(f) for f in FEATURES)
 
 
 @dataclass
@@ -36,6 +36,9 @@ class Evidence:
     text_mix: dict[str, float] | None = None  # text = sum of weight * signal cosine (the weights of stack_signals)
     label_table: "LabelTable | None" = None  # tokenised labels shared by the sources of one run
     decided: dict[int, int] | None = None  # category -> concept of a person's accepted edge (the siblings feature)
+    labelled: dict[int, list[int]] | None = None  # category -> concepts: accepted edges and stored labels
+    neighbours: dict[int, dict[int, float]] | None = None  # category -> concept -> labelled look-alikes' vote
+    aligned: np.ndarray | None = None       # category text vectors moved by the map fitted on labelled pairs
 
 
 @dataclass
@@ -61,10 +64,12 @@ def decide(cats: HierarchyView, concepts: HierarchyView, ev: Evidence, model: Sc
     rel = _Relations(concepts)
     region = [concepts.region(j) for j in range(len(concepts.uids))]
     votes = _vote_lookup(ev.votes, len(concepts.uids))
-    family = _decided_siblings(cats, ev.decided or {}, region)
+    near = _vote_lookup(ev.neighbours, len(concepts.uids))
+    # siblings with a label (a person's accepted edge, or a pair `map --learn` was given) pull the family
+    labelled = {ci: js[0] for ci, js in ev.labelled.items()} if ev.labelled else (ev.decided or {})
+    family = _decided_siblings(cats, labelled, region)
     c_depth = np.array(concepts.depth, dtype=np.int64)
     c_leaf = np.array(concepts.is_leaf, dtype=bool)
-    margin = tie_margin * _text_weight(model)
     chosen = np.full(n, -1, dtype=np.int64)
     for ci, j in fixed_top.items():
         chosen[ci] = j
@@ -81,8 +86,10 @@ def decide(cats: HierarchyView, concepts: HierarchyView, ev: Evidence, model: Sc
             c = c[:, : max(int((c >= 0).sum(axis=1).max()), 1)]
             valid = c >= 0
             f = _features(rows, c, valid, ev, cats, lex, rel, region, chosen, votes, depth_prior, c_depth, c_leaf,
-                          family)
-            logits = model.logit(f.reshape(-1, len(FEATURES)), disabled).reshape(c.shape)
+                          family, near)
+            level_model = model.for_depth(int(level))
+            margin = tie_margin * _text_weight(level_model)
+            logits = level_model.logit(f.reshape(-1, len(FEATURES)), disabled).reshape(c.shape)
             logits = np.where(valid, logits, -np.inf)
             order = np.lexsort((np.where(valid, c, np.iinfo(np.int64).max), -logits), axis=1)
             _repeated_titles(order, c, logits, rows, cats, rel, c_leaf, c_depth, margin, depth_prior)
@@ -190,7 +197,8 @@ def _decided_siblings(cats: HierarchyView, decided: dict[int, int], region: list
     return out
 
 
-def _features(rows, c, valid, ev, cats, lex, rel, region, chosen, votes, depth_prior, c_depth, c_leaf, family):
+def _features(rows, c, valid, ev, cats, lex, rel, region, chosen, votes, depth_prior, c_depth, c_leaf, family,
+              near=None):
     b, width = c.shape
     f = np.empty((b, width, len(FEATURES)))
     safe = np.maximum(c, 0)
@@ -208,6 +216,7 @@ def _features(rows, c, valid, ev, cats, lex, rel, region, chosen, votes, depth_p
         if not (ev.signals and name in ev.signals):
             f[:, :, col] = f[:, :, T]
     f[:, :, LEX] = lex[rows, :width]
+    f[:, :, ALI] = _gather_dot(ev.aligned, ev.r_text, rows, c) if ev.aligned is not None else f[:, :, T]
     f[:, :, MEM] = f[:, :, T]
     if ev.members is not None and ev.concept_gloss is not None:
         has = np.any(ev.members[rows] != 0, axis=1)
@@ -250,17 +259,23 @@ def _features(rows, c, valid, ev, cats, lex, rel, region, chosen, votes, depth_p
             share = np.zeros((b, width))
             np.add.at(share, owner_a, under * np.array(weight)[:, None])
             f[:, :, SIB] = share
-    f[:, :, INS] = 0.0
-    if votes is not None:
-        keys, vals, n_concepts = votes
-        k = rows[:, None].astype(np.int64) * n_concepts + safe
-        at = np.minimum(np.searchsorted(keys, k), len(keys) - 1)
-        f[:, :, INS] = np.where((keys[at] == k) & valid, vals[at], 0.0)
+    f[:, :, INS] = _looked_up(votes, rows, safe, valid)
+    f[:, :, NEI] = _looked_up(near, rows, safe, valid)
     return f
 
 
+def _looked_up(lookup, rows, safe, valid) -> np.ndarray | float:
+    """Values of a `_vote_lookup` table for every (row, candidate); 0 where it has none."""
+    if lookup is None:
+        return 0.0
+    keys, vals, n_concepts = lookup
+    k = rows[:, None].astype(np.int64) * n_concepts + safe
+    at = np.minimum(np.searchsorted(keys, k), len(keys) - 1)
+    return np.where((keys[at] == k) & valid, vals[at], 0.0)
+
+
 def _text_weight(model: ScoringModel) -> float:
-    return max(model.weights.get("text", 0.0), 1e-6)
+    return max(model.weights.get("text", 0.0) + model.weights.get("aligned", 0.0), 1e-6)
 
 
 def _repeated_titles(order, c, logits, rows, cats, rel, c_leaf, c_depth, margin, depth_prior) -> None:

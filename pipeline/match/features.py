@@ -23,13 +23,14 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-FEATURES = ("text", "lexical", "members", "parent", "depth", "instance", "path", "label", "gloss", "role", "siblings")
-NEUTRAL = {"parent": 0.5, "depth": 0.5, "instance": 0.0, "role": 0.5, "siblings": 0.0}
+FEATURES = ("text", "lexical", "members", "parent", "depth", "instance", "path", "label", "gloss", "role", "siblings",
+            "neighbours", "aligned")
+NEUTRAL = {"parent": 0.5, "depth": 0.5, "instance": 0.0, "role": 0.5, "siblings": 0.0, "neighbours": 0.0}
 
 # Default logistic weights, used until a model is learned from labelled edges (`map --learn`). Set by reasoning,
 # not fitted: text dominates; each other feature can move a close call but not overturn a clear text winner.
-DEFAULT_WEIGHTS = {"text": 12.0, "lexical": 2.0, "members": 3.0, "parent": 1.0, "depth": 1.5, "instance": 2.0,
-                   "siblings": 2.0}
+DEFAULT_WEIGHTS = {"text": 6.0, "aligned": 6.0, "lexical": 2.0, "members": 3.0, "parent": 1.0, "depth": 1.5, "instance": 2.0,
+                   "siblings": 2.0, "neighbours": 4.0}
 DEFAULT_BIAS = -12.0
 
 
@@ -38,6 +39,12 @@ class ScoringModel:
     weights: dict[str, float] = field(default_factory=lambda: dict(DEFAULT_WEIGHTS))
     bias: float = DEFAULT_BIAS
     source: str = "default"  # "default", or what it was learned from
+    depths: list[int] | None = None  # source depths its labels came from (None: every depth)
+
+    def for_depth(self, depth: int) -> "ScoringModel":
+        """This model where its labels speak (their depths), the default weights elsewhere: labels on one level of
+        the source say little about how to score another, and a wrong inner choice misleads its children."""
+        return self if self.depths is None or depth in self.depths else ScoringModel()
 
     def logit(self, feats: np.ndarray, disabled: frozenset[str] = frozenset()) -> np.ndarray:
         """`feats`: (n, len(FEATURES)) in FEATURES order; a disabled feature contributes as if neutral."""
@@ -49,17 +56,18 @@ class ScoringModel:
         return 1.0 / (1.0 + np.exp(-self.logit(feats, disabled)))
 
     def to_json(self) -> dict:
-        return {"weights": self.weights, "bias": self.bias, "source": self.source}
+        out = {"weights": self.weights, "bias": self.bias, "source": self.source}
+        return out if self.depths is None else {**out, "depths": self.depths}
 
     @classmethod
     def from_json(cls, data: dict) -> "ScoringModel":
         return cls(weights={k: float(v) for k, v in data["weights"].items()}, bias=float(data["bias"]),
-                   source=data.get("source", "learned"))
+                   source=data.get("source", "learned"), depths=data.get("depths"))
 
 
 def _neutral_value(name: str, feats: np.ndarray):
     if name in NEUTRAL:
         return NEUTRAL[name]
-    if name in ("members", "lexical", "path", "label", "gloss"):
+    if name in ("members", "lexical", "path", "label", "gloss", "aligned"):
         return feats[:, FEATURES.index("text")]  # switched off = as if it agreed with the text evidence
     return 0.0

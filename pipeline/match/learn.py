@@ -13,7 +13,8 @@ import logging
 import numpy as np
 
 from pipeline.errors import BadInput, Problem
-from pipeline.match.features import FEATURES, ScoringModel
+from pipeline.match.features import DEFAULT_WEIGHTS, FEATURES, ScoringModel
+from pipeline.match.neighbours import labels_key
 from pipeline.match.map_job import MODEL_KEY, MapSettings, _load_side, _plan, load_model
 from pipeline.schemes import choose_reference
 from pipeline.store import Store
@@ -27,12 +28,27 @@ def learn_model(store: Store, labels: dict[str, dict[str, set[str]]], *, referen
 
     With `target_precision`, also store the lowest auto threshold at which the top choices of the labelled
     categories reach that precision (on these same labels: an optimistic estimate; say so to the user)."""
-    from sklearn.linear_model import LogisticRegression
-
     reference = choose_reference(store.rows("schemes_list"), reference)
     concept_side = _load_side(store, "Concept", reference)
     model = load_model(store)
-    xs, ys, tops = [], [], []
+    previous = store.scalar("meta_get", key=MODEL_KEY) or ""
+    # The labelled pairs are kept with the model, so every later map run has them for the neighbours feature
+    # (a steward's accepted edges are in the store already). Stored first: the training rows see them too, each
+    # labelled category voted on by the others only.
+    kept = {} if origin == "decisions" else {labels_key(reference): {
+        s: {code: sorted(cs) for code, cs in gold.items()} for s, gold in labels.items()}}
+    store.run("meta_set", key=MODEL_KEY, value=json.dumps({**model.to_json(), **kept}))
+    try:
+        return _fit_and_store(store, labels, reference, concept_side, model, kept, target_precision, origin, c)
+    except BaseException:
+        store.run("meta_set", key=MODEL_KEY, value=previous)
+        raise
+
+
+def _fit_and_store(store, labels, reference, concept_side, model, kept, target_precision, origin, c) -> dict:
+    from sklearn.linear_model import LogisticRegression
+
+    xs, ys, tops, depths = [], [], [], set()
     for source, gold in labels.items():
         plan = _plan(store, source, reference, concept_side, MapSettings(), model, None)
         code_of = dict(zip(range(len(plan.concepts.uids)), plan.concepts.codes))
@@ -44,10 +60,13 @@ def learn_model(store: Store, labels: dict[str, dict[str, set[str]]], *, referen
             xs.append(rk.features)
             ys.extend(right)
             tops.append((ci, source))
+            depths.add(int(plan.cats.depth[ci]))
     if not xs or not any(ys) or all(ys):
         raise BadInput(Problem(f"the {origin} gives no usable labels (need categories whose candidates include both "
                                "right and wrong concepts)", field="--learn"))
-    weights = fit_conditional_logit(xs, [np.array(r, dtype=bool) for r in _split(ys, xs)], l2=1.0 / c)
+    prior = np.array([DEFAULT_WEIGHTS.get(f, 0.0) for f in FEATURES])
+    weights = fit_conditional_logit(xs, [np.array(r, dtype=bool) for r in _split(ys, xs)], l2=1.0 / c,
+                                    prior=prior)
     # Platt scaling on the top choice of each labelled category turns the ranking score into a probability.
     top_logit = np.array([float(x[np.argmax(x @ weights)] @ weights) for x in xs])
     top_right = np.array([bool(r[np.argmax(x @ weights)]) for x, r in zip(xs, _split(ys, xs))])
@@ -57,9 +76,9 @@ def learn_model(store: Store, labels: dict[str, dict[str, set[str]]], *, referen
         platt = LogisticRegression(C=1e4, max_iter=2000).fit(top_logit.reshape(-1, 1), top_right.astype(int))
         a, b = float(platt.coef_[0][0]), float(platt.intercept_[0])
     learned = ScoringModel(weights={f: float(w * a) for f, w in zip(FEATURES, weights)}, bias=b,
-                           source=f"learned ({origin}, {len(tops)} categories)")
+                           source=f"learned ({origin}, {len(tops)} categories)", depths=sorted(depths))
     y = np.array(ys, dtype=int)
-    store.run("meta_set", key=MODEL_KEY, value=json.dumps(learned.to_json()))
+    store.run("meta_set", key=MODEL_KEY, value=json.dumps({**learned.to_json(), **kept}))
     report = {"model": learned.to_json(), "categories": len(tops), "rows": int(len(y)), "positives": int(y.sum())}
     if target_precision is not None:
         threshold = pick_threshold(store, labels, learned, reference, concept_side, target_precision)
@@ -79,16 +98,21 @@ def _split(flat: list, groups: list[np.ndarray]) -> list[list]:
     return out
 
 
-def fit_conditional_logit(groups: list[np.ndarray], right: list[np.ndarray], *, l2: float = 0.01) -> np.ndarray:
+def fit_conditional_logit(groups: list[np.ndarray], right: list[np.ndarray], *, l2: float = 0.01,
+                          prior: np.ndarray | None = None) -> np.ndarray:
     """Weights that rank each category's right candidates first: maximise sum over categories of
-    log(sum of softmax probability on the right candidates), with an L2 penalty. (McFadden's conditional logit.)"""
+    log(sum of softmax probability on the right candidates), with an L2 penalty towards `prior` (default 0).
+    (McFadden's conditional logit.) A prior at the default weights keeps what the labels do not speak to: labels
+    on leaves alone say little about how inner categories should be scored, yet the model scores every level."""
     from scipy.optimize import minimize
 
     usable = [(x, r) for x, r in zip(groups, right) if r.any() and not r.all()]
     dim = groups[0].shape[1]
 
+    centre = np.zeros(dim) if prior is None else np.asarray(prior, dtype=np.float64)
+
     def loss(w):
-        total, grad = l2 * w @ w, 2 * l2 * w
+        total, grad = l2 * (w - centre) @ (w - centre), 2 * l2 * (w - centre)
         for x, r in usable:
             z = x @ w
             z -= z.max()
@@ -99,7 +123,7 @@ def fit_conditional_logit(groups: list[np.ndarray], right: list[np.ndarray], *, 
             grad -= p_right @ x[r] - p_all @ x
         return total, grad
 
-    start = np.array([10.0 if i == 0 else 1.0 for i in range(dim)])
+    start = centre.copy() if prior is not None else np.array([10.0 if i == 0 else 1.0 for i in range(dim)])
     return minimize(loss, start, jac=True, method="L-BFGS-B").x
 
 

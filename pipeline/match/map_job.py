@@ -27,6 +27,8 @@ from pipeline.match.decide import Evidence, Ranked, decide, learn_depth_prior
 from pipeline.match.features import FEATURES, ScoringModel
 from pipeline.match.hierarchy_view import HierarchyView
 from pipeline.match.match_type import match_type
+from pipeline.match.alignment import aligned_pools, aligned_vectors
+from pipeline.match.neighbours import labelled_categories, neighbour_votes, stored_labels, widen_pools
 from pipeline.hashing import content_hash as hash_text
 from pipeline.schemes import choose_reference
 from pipeline.store import Store
@@ -185,6 +187,8 @@ def _plan(store: Store, source: str, reference: str, concept_side, settings: Map
                                         kpos, cpos)
     ev.label_table = label_table
     context = dict(fixed)
+    for ci, js in (ev.labelled or {}).items():
+        context.setdefault(ci, js[0])  # a labelled category is parent context for its children
     if subset is not None:
         # Incremental: the categories not re-mapped keep their current choice as parent context.
         live = store.frame("live_top_edges", source=source, reference=reference)
@@ -313,6 +317,17 @@ def _evidence_for(store, source, reference, cats, concepts, qmats, cmats, settin
     mix = {b if a == "label" and b == "gloss" else a: w for a, b, w in DEFAULT_SIGNALS}
     ev = Evidence(pools=pools, q_text=q, r_text=r, members=mem_matrix, concept_gloss=cmats["gloss"],
                   signals=signals, text_mix=mix, decided=dict(fixed))
+    ev.labelled = labelled_categories(
+        (decided.get("category", []), decided.get("concept", []), decided.get("status", [])),
+        stored_labels(store.scalar("meta_get", key=MODEL_KEY), source, reference), cats.codes, concepts.codes,
+        kpos, cpos)
+    if "neighbours" not in settings.disabled and ev.labelled:
+        ev.neighbours = neighbour_votes(q, ev.labelled, todo)
+        widen_pools(pools, ev.neighbours)
+    if "aligned" not in settings.disabled and ev.labelled:
+        ev.aligned = aligned_vectors(q, r, ev.labelled, todo)
+        if ev.aligned is not None:
+            widen_pools(pools, aligned_pools(ev.aligned, r, todo))
     return ev, fixed, excluded
 
 
