@@ -29,8 +29,9 @@ NEUTRAL = {"parent": 0.5, "depth": 0.5, "instance": 0.0, "role": 0.5, "siblings"
 
 # Default logistic weights, used until a model is learned from labelled edges (`map --learn`). Set by reasoning,
 # not fitted: text dominates; each other feature can move a close call but not overturn a clear text winner.
-DEFAULT_WEIGHTS = {"text": 6.0, "aligned": 6.0, "lexical": 2.0, "members": 3.0, "parent": 1.0, "depth": 1.5, "instance": 2.0,
-                   "siblings": 2.0, "neighbours": 4.0}
+# `aligned` equals `text` until labels fit a map, so the two halves add up to text's former weight of 12.
+DEFAULT_WEIGHTS = {"text": 6.0, "aligned": 6.0, "lexical": 2.0, "members": 3.0, "parent": 1.0, "depth": 1.5,
+                   "instance": 2.0, "siblings": 2.0, "neighbours": 4.0}
 DEFAULT_BIAS = -12.0
 
 
