@@ -192,3 +192,21 @@ def test_a_bulk_write_larger_than_one_batch_lands_whole(engine):
         nodes = s.frame("count_nodes")
     assert nodes[nodes.kind == "Item"]["n"].tolist() == [n]
 
+
+
+def test_releasing_memory_keeps_the_data_the_lock_and_an_open_transaction(engine, tmp_path):
+    with engine.open() as s:
+        s.run("meta_set", key="a", value="1")
+        s.release_memory()
+        assert s.scalar("meta_get", key="a") == "1"
+        with s.transaction():
+            s.run("meta_set", key="b", value="2")
+            s.release_memory()  # inside a transaction it must not drop the uncommitted write
+        assert s.scalar("meta_get", key="b") == "2"
+        if engine.name == "ladybug":
+            # the file lock is kept across the reopen: another process still cannot open the store
+            out = _in_other_process(_READ_ONCE.format(path=str(s.location)))
+            assert "LOCKED 3" in out.stdout, out.stdout + out.stderr
+        s.run("meta_set", key="c", value="3")  # and writing after a release works
+    with engine.open() as s:
+        assert [s.scalar("meta_get", key=k) for k in "abc"] == ["1", "2", "3"]

@@ -71,11 +71,15 @@ def run_pipeline(cfg: Config, *, full: bool = False, out: TextIO | None = None) 
                                          force=full, run_id=run["run_id"], precheck=False, **_item_options(src))
                         item_runs.append(r)
                         if not r.get("skipped"):
+                            store.release_memory()
+                        if not r.get("skipped"):
                             say(f"  items {src.key} {f.name}: {r['rows_items']} rows, {r['rejected']} rejected")
                     stages[f"items {src.key}"] = item_runs
+            store.release_memory()  # the engine keeps what each stage allocated until it closes
             with timed("embed"):
                 stages["embed"] = embed(store, embedder=cfg.embedder)
                 say(f"  embed: {stages['embed']['embedded']} texts embedded, {stages['embed']['skipped']} unchanged")
+            store.release_memory()
             with timed("map"):
                 settings = MapSettings(candidates=cfg.candidates, auto_threshold=cfg.auto_threshold,
                                        index_above=cfg.index_above)
@@ -95,6 +99,7 @@ def run_pipeline(cfg: Config, *, full: bool = False, out: TextIO | None = None) 
                 for key, c in stages["map"].get("sources", {}).items():
                     say(f"  map {key}: {c['categories']} categories -> {c['auto']} auto, {c['proposed']} proposed, "
                         f"{c['unmapped']} unmapped")
+            store.release_memory()
             with timed("place"):
                 stages["place"] = place(store, sources=[s.key for s in cfg.sources], reference=reference,
                                         pending_only=not full)

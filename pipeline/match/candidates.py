@@ -34,11 +34,10 @@ def top_k(queries: np.ndarray, refs: np.ndarray, k: int, *, block: int = 4096) -
 def stack_signals(pairs: list[tuple[np.ndarray, np.ndarray, float]]) -> tuple[np.ndarray, np.ndarray]:
     """Fuse several (query matrix, reference matrix, weight) similarity signals into one matrix pair whose
     product equals sum(weight * q @ r.T): each side is scaled by sqrt(weight) and concatenated."""
-    qs, rs = [], []
-    for q, r, w in pairs:
-        if w <= 0:
-            continue
-        s = np.float32(np.sqrt(w))
-        qs.append(q * s)
-        rs.append(r * s)
-    return np.hstack(qs).astype(np.float32), np.hstack(rs).astype(np.float32)
+    return stack_side([(q, w) for q, _, w in pairs]), stack_side([(r, w) for _, r, w in pairs])
+
+
+def stack_side(parts: list[tuple[np.ndarray, float]]) -> np.ndarray:
+    """One side of `stack_signals`: each matrix scaled by sqrt(weight), side by side (weights <= 0 left out)."""
+    kept = [m * np.float32(np.sqrt(w)) for m, w in parts if w > 0]
+    return np.hstack(kept).astype(np.float32)

@@ -19,7 +19,7 @@ import numpy as np
 import pandas as pd
 
 from pipeline.errors import BadInput, NotFound, Problem
-from pipeline.match.candidates import stack_signals, top_k
+from pipeline.match.candidates import stack_side, top_k
 from pipeline.match.lexical_batch import LabelTable
 from pipeline.match.pools import text_pools
 from pipeline.match.region_pool import extend_pools
@@ -86,13 +86,17 @@ def map_sources(store: Store, *, sources: list[str] | None = None, reference: st
     # the reference's labels are tokenised once for every source of the run
     label_table = LabelTable([lab for j in range(len(concepts.uids))
                               for lab in (concepts.labels[j], *concepts.alt_labels[j]) if lab], None)
+    # fused concept text vectors, shared by every source's plan (10k concepts: 46 MB each)
+    concept_text = stack_side([(concept_side[1][b], w) for _, b, w in DEFAULT_SIGNALS])
     summary = {"reference": reference, "model": model.source, "auto_threshold": threshold, "sources": {}}
     plans = {}
     for key in targets:
         subset = None if only is None else only.get(key, [])
         if subset is not None and not subset:
             continue
-        plans[key] = _plan(store, key, reference, concept_side, settings, model, subset, label_table)
+        plans[key] = _plan(store, key, reference, concept_side, settings, model, subset, label_table,
+                           concept_text)
+        store.release_memory()  # what the engine allocated reading this source's vectors
     # Instance evidence: where the same item keys landed in the other sources, from this run's own first
     # choices (or the stored edges of sources not being re-mapped), so the result never depends on an earlier run.
     if "instance" not in settings.disabled and len(plans) and len(all_sources) > 1:
@@ -174,7 +178,8 @@ class _Plan:
 
 
 def _plan(store: Store, source: str, reference: str, concept_side, settings: MapSettings, model: ScoringModel,
-          subset: list[str] | None, label_table: LabelTable | None = None) -> _Plan:
+          subset: list[str] | None, label_table: LabelTable | None = None,
+          concept_text: np.ndarray | None = None) -> _Plan:
     concepts, cmats, c_emb = concept_side
     cats, qmats, q_emb = _load_side(store, "Category", source)
     if cats.uids and (c_emb != q_emb or len(c_emb) != 1):
@@ -183,8 +188,10 @@ def _plan(store: Store, source: str, reference: str, concept_side, settings: Map
     kpos = {u: i for i, u in enumerate(cats.uids)}
     cpos = {u: i for i, u in enumerate(concepts.uids)}
     todo = list(range(len(cats.uids))) if subset is None else sorted(kpos[u] for u in subset if u in kpos)
-    ev, fixed, excluded = _evidence_for(store, source, reference, cats, concepts, qmats, cmats, settings, todo,
-                                        kpos, cpos)
+    if concept_text is None:
+        concept_text = stack_side([(cmats[b], w) for _, b, w in DEFAULT_SIGNALS])
+    ev, fixed, excluded = _evidence_for(store, source, reference, cats, concepts, qmats, cmats, concept_text,
+                                        settings, todo, kpos, cpos)
     ev.label_table = label_table
     context = dict(fixed)
     for ci, js in (ev.labelled or {}).items():
@@ -286,8 +293,8 @@ def _fit_prior(prior: np.ndarray, cats: HierarchyView, concepts: HierarchyView) 
     return out
 
 
-def _evidence_for(store, source, reference, cats, concepts, qmats, cmats, settings, todo, kpos, cpos):
-    q, r = stack_signals([(qmats[a], cmats[b], w) for a, b, w in DEFAULT_SIGNALS])
+def _evidence_for(store, source, reference, cats, concepts, qmats, cmats, r, settings, todo, kpos, cpos):
+    q = stack_side([(qmats[a], w) for a, _, w in DEFAULT_SIGNALS])
     pools, how = text_pools(store, q, r, todo, settings.pool, concept_uids=concepts.uids,
                             signal_queries={b: qmats[a] for a, b, _ in DEFAULT_SIGNALS},
                             index_above=settings.index_above)

@@ -70,6 +70,11 @@ class Store(abc.ABC):
     @abc.abstractmethod
     def close(self) -> None: ...
 
+    def release_memory(self) -> None:
+        """Give back what the engine holds in this process between jobs (caches, buffers); the store stays open
+        and locked. Called between the stages of a long run; nothing happens inside a transaction, or on engines
+        that hold nothing in this process."""
+
     def rows(self, name: str, **params) -> list[dict]:
         return self.frame(name, **params).to_dict("records")
 
