@@ -194,7 +194,10 @@ def test_a_bulk_write_larger_than_one_batch_lands_whole(engine):
 
 
 
-def test_releasing_memory_keeps_the_data_the_lock_and_an_open_transaction(engine, tmp_path):
+def test_releasing_memory_keeps_the_data_the_lock_and_an_open_transaction(engine, monkeypatch):
+    from pipeline.store import ladybug_store
+
+    monkeypatch.setattr(ladybug_store, "RELEASE_ABOVE_MB", 0)  # reopen however small this process is
     with engine.open() as s:
         s.run("meta_set", key="a", value="1")
         s.release_memory()

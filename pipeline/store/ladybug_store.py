@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import contextlib
 import logging
+import os
 import re
 import time
 from pathlib import Path
@@ -20,6 +21,7 @@ from pipeline.store.queries import load_query, statements
 
 log = logging.getLogger(__name__)
 ENGINE = "ladybug"
+RELEASE_ABOVE_MB = 1024  # resident size from which `release_memory` reopens the engine
 
 
 class LadybugStore(Store):
@@ -217,9 +219,14 @@ class LadybugStore(Store):
     def release_memory(self) -> None:
         """Close the engine and open it again, keeping the file lock. LadybugDB keeps what its queries and writes
         allocated until the database closes: at 1M items a full `run` held about 2 GB more by the map stage than
-        a run that reopened between stages (benchmarks/run.py --scale full). Reopening takes about 40 ms."""
+        a run that reopened between stages (benchmarks/run.py --scale full). The reopen itself takes about 40 ms,
+        but closing checkpoints every table written since the last one, so below RELEASE_ABOVE_MB resident it
+        is not worth it (a nightly delta at 1M items paid 2.6 s for its reopens)."""
         if self._tx_depth or self._db is None:
             return  # a transaction's state lives in the engine
+        resident = _resident_mb()
+        if resident is not None and resident < RELEASE_ABOVE_MB:
+            return
         import ladybug
 
         self._conn.close()
@@ -237,6 +244,15 @@ class LadybugStore(Store):
         if db is not None:
             db.close()
         self._release_lock()
+
+
+def _resident_mb() -> float | None:
+    """This process's resident size in MB (Linux), else None."""
+    try:
+        with open("/proc/self/statm", encoding="ascii") as f:
+            return int(f.read().split()[1]) * os.sysconf("SC_PAGE_SIZE") / 2**20
+    except (OSError, ValueError, IndexError, AttributeError):
+        return None
 
 
 def _trim_heap() -> None:
