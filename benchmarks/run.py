@@ -39,6 +39,7 @@ import workload  # noqa: E402
 
 from pipeline.jobs.config import load_config  # noqa: E402
 from pipeline.jobs.nightly import run_pipeline  # noqa: E402
+from pipeline.match.candidates import TOPK_BLOCK  # noqa: E402
 from pipeline.store import open_store  # noqa: E402
 
 TOP_K = 25
@@ -248,8 +249,8 @@ def topk_baseline(store, cfg) -> dict:
         r = np.hstack([cmat["path"] * np.sqrt(0.5), cmat["label"] * np.sqrt(0.3), cmat["gloss"] * np.sqrt(0.2)])
         q, r = q.astype(np.float32), np.ascontiguousarray(r.T, dtype=np.float32)
         t = time.perf_counter()
-        for start in range(0, len(q), 4096):
-            sims = q[start:start + 4096] @ r
+        for start in range(0, len(q), TOPK_BLOCK):  # the block size the map stage uses (faster than larger ones)
+            sims = q[start:start + TOPK_BLOCK] @ r
             idx = np.argpartition(-sims, TOP_K - 1, axis=1)[:, :TOP_K]
             np.take_along_axis(sims, idx, axis=1)
         seconds += time.perf_counter() - t

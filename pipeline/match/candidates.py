@@ -11,8 +11,12 @@ from __future__ import annotations
 
 import numpy as np
 
+# Query rows per matrix product. Small blocks keep the similarity block in cache for the selection that follows:
+# 20,000 x 10,000 at width 1,152 took 2.6 s in blocks of 512 against 3.9 s in blocks of 4,096 (median of 3).
+TOPK_BLOCK = 512
 
-def top_k(queries: np.ndarray, refs: np.ndarray, k: int, *, block: int = 4096) -> tuple[np.ndarray, np.ndarray]:
+
+def top_k(queries: np.ndarray, refs: np.ndarray, k: int, *, block: int = TOPK_BLOCK) -> tuple[np.ndarray, np.ndarray]:
     """Indices and scores of the k best refs per query row, best first. Memory stays at block x len(refs)."""
     k = min(k, refs.shape[0])
     n = queries.shape[0]

@@ -22,6 +22,11 @@ from pipeline.store.queries import load_query, statements
 log = logging.getLogger(__name__)
 ENGINE = "ladybug"
 RELEASE_ABOVE_MB = 1024  # resident size from which `release_memory` reopens the engine
+# Log size at which the engine checkpoints by itself. Each checkpoint rewrites the tables written since the last,
+# so the engine's default (16 MB) made every map commit rewrite the growing edge and history tables: at 1M items
+# 1 GB took the map stage from 63.8 s to 54.9 s and placing from 34.0 s to 28.5 s, at the same peak RSS.
+# Closing (and `release_memory`) checkpoints anyway.
+CHECKPOINT_WAL_MB = 1024
 
 
 class LadybugStore(Store):
@@ -56,7 +61,7 @@ class LadybugStore(Store):
         recovered = False
         while True:
             try:
-                self._db = ladybug.Database(str(p), read_only=read_only)
+                self._db = _database(ladybug, p, read_only)
                 self._conn = ladybug.Connection(self._db)
                 return
             except RuntimeError as exc:
@@ -232,7 +237,7 @@ class LadybugStore(Store):
         self._conn.close()
         self._db.close()
         self._conn = self._db = None
-        self._db = ladybug.Database(self.location, read_only=self.read_only)
+        self._db = _database(ladybug, self.location, self.read_only)
         self._conn = ladybug.Connection(self._db)
         _trim_heap()
 
@@ -244,6 +249,10 @@ class LadybugStore(Store):
         if db is not None:
             db.close()
         self._release_lock()
+
+
+def _database(ladybug, path, read_only: bool):
+    return ladybug.Database(str(path), read_only=read_only, checkpoint_threshold=CHECKPOINT_WAL_MB * 2**20)
 
 
 def _resident_mb() -> float | None:
