@@ -57,6 +57,26 @@ def test_a_second_run_with_no_new_input_changes_nothing(setup):
     assert first["stages"]["place"]["items_placed"] == second["stages"]["place"]["items_placed"]
 
 
+def test_reopening_the_engine_between_stages_and_plans_changes_no_result(setup, monkeypatch):
+    # A run reopens the embedded engine to give its memory back (only once the process is big); forced here at
+    # every point it may happen, the run must reach the same crosswalk as a run that never reopens.
+    from pipeline.store import ladybug_store
+
+    tmp, _, cfg_path = setup
+    ref_cfg = tmp / "ref.toml"
+    ref_cfg.write_text(cfg_path.read_text().replace('path = "s.lbug"', 'path = "ref.lbug"'))
+    monkeypatch.setattr(ladybug_store, "RELEASE_ABOVE_MB", float("inf"))
+    run_pipeline(load_config(ref_cfg))
+    reopened = []
+    original = ladybug_store._trim_heap
+    monkeypatch.setattr(ladybug_store, "_trim_heap", lambda: reopened.append(1) or original())
+    monkeypatch.setattr(ladybug_store, "RELEASE_ABOVE_MB", 0)
+    summary = run_pipeline(load_config(cfg_path))
+    assert len(reopened) >= 3 + 3  # at least between the stages and after each source's map plan
+    assert "reopen" in summary["seconds"]
+    assert _export(tmp / "s.lbug", tmp / "a.csv") == _export(tmp / "ref.lbug", tmp / "b.csv")
+
+
 def test_new_items_are_placed_through_existing_edges_without_remapping(setup):
     tmp, files, cfg_path = setup
     run_pipeline(load_config(cfg_path))
