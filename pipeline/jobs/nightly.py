@@ -77,9 +77,8 @@ def run_pipeline(cfg: Config, *, full: bool = False, out: TextIO | None = None) 
                                          force=full, run_id=run["run_id"], precheck=False, **_item_options(src))
                         item_runs.append(r)
                         if not r.get("skipped"):
-                            store.release_memory()  # counted in the ingest stage
-                        if not r.get("skipped"):
                             say(f"  items {src.key} {f.name}: {r['rows_items']} rows, {r['rejected']} rejected")
+                            store.release_memory()  # counted in the ingest stage
                     stages[f"items {src.key}"] = item_runs
             release_memory()  # the engine keeps what each stage allocated until it closes
             with timed("embed"):

@@ -268,13 +268,10 @@ def _trim_heap() -> None:
     """Hand the C heap's free pages back to the system (glibc only; elsewhere nothing to do). The engine's freed
     memory otherwise stays in this process's resident size."""
     import ctypes
-    import ctypes.util
 
-    name = ctypes.util.find_library("c")
     try:
-        libc = ctypes.CDLL(name) if name else None
-        trim = getattr(libc, "malloc_trim", None)
-    except OSError:
+        trim = getattr(ctypes.CDLL(None), "malloc_trim", None)  # the symbols already loaded: libc's among them
+    except (OSError, TypeError):
         return
     if trim is not None:
         trim(0)
