@@ -213,3 +213,21 @@ def test_releasing_memory_keeps_the_data_the_lock_and_an_open_transaction(engine
         s.run("meta_set", key="c", value="3")  # and writing after a release works
     with engine.open() as s:
         assert [s.scalar("meta_get", key=k) for k in "abc"] == ["1", "2", "3"]
+
+
+def test_an_interrupt_inside_the_engines_result_constructor_leaves_no_traceback(tmp_path, monkeypatch):
+    # Seen in the kill tests: Ctrl-C landed in LadybugDB's QueryResult.__init__ before it set `is_closed`, and the
+    # half-built result's __del__ printed an AttributeError under the clean "interrupted" message.
+    import gc
+
+    from ladybug.query_result import QueryResult
+
+    with open_store(tmp_path / "s.lbug"):
+        pass  # opening a store installs the guard
+    raised = []
+    monkeypatch.setattr(sys, "unraisablehook", raised.append)
+    half_built = QueryResult.__new__(QueryResult)
+    half_built.connection = None  # the constructor's first line ran, the interrupt came before the next
+    del half_built
+    gc.collect()
+    assert raised == []

@@ -36,6 +36,7 @@ class LadybugStore(Store):
                  lock_timeout: float = 0.0):
         import ladybug  # imported here so the Neo4j engine never needs it loaded
 
+        _quiet_partial_results()
         self.location = str(path)
         p = Path(path)
         if not p.exists() and (read_only or not create):
@@ -249,6 +250,17 @@ class LadybugStore(Store):
         if db is not None:
             db.close()
         self._release_lock()
+
+
+def _quiet_partial_results() -> None:
+    """Ctrl-C or SIGTERM can land inside LadybugDB's `QueryResult.__init__` before it sets `is_closed`; its
+    `__del__` then printed an AttributeError traceback under graftwork's clean "interrupted" message (seen once in
+    the kill tests). A class-level default makes such a half-built result count as closed; built ones set their
+    own value."""
+    from ladybug.query_result import QueryResult
+
+    if "is_closed" not in QueryResult.__dict__:
+        QueryResult.is_closed = True
 
 
 def _database(ladybug, path, read_only: bool):
