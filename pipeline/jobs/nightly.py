@@ -41,7 +41,7 @@ def run_pipeline(cfg: Config, *, full: bool = False, out: TextIO | None = None) 
             def timed(name):
                 return _Timer(seconds, name)
 
-            def release_memory():
+            def reopen_engine():
                 # between stages, so its time (mostly checkpoints) is kept apart from theirs
                 t = time.perf_counter()
                 store.release_memory()
@@ -80,11 +80,11 @@ def run_pipeline(cfg: Config, *, full: bool = False, out: TextIO | None = None) 
                             say(f"  items {src.key} {f.name}: {r['rows_items']} rows, {r['rejected']} rejected")
                             store.release_memory()  # counted in the ingest stage
                     stages[f"items {src.key}"] = item_runs
-            release_memory()  # the engine keeps what each stage allocated until it closes
+            reopen_engine()  # the engine keeps what each stage allocated until it closes
             with timed("embed"):
                 stages["embed"] = embed(store, embedder=cfg.embedder)
                 say(f"  embed: {stages['embed']['embedded']} texts embedded, {stages['embed']['skipped']} unchanged")
-            release_memory()
+            reopen_engine()
             with timed("map"):
                 settings = MapSettings(candidates=cfg.candidates, auto_threshold=cfg.auto_threshold,
                                        index_above=cfg.index_above)
@@ -104,7 +104,7 @@ def run_pipeline(cfg: Config, *, full: bool = False, out: TextIO | None = None) 
                 for key, c in stages["map"].get("sources", {}).items():
                     say(f"  map {key}: {c['categories']} categories -> {c['auto']} auto, {c['proposed']} proposed, "
                         f"{c['unmapped']} unmapped")
-            release_memory()
+            reopen_engine()
             with timed("place"):
                 stages["place"] = place(store, sources=[s.key for s in cfg.sources], reference=reference,
                                         pending_only=not full)

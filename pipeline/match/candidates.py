@@ -12,7 +12,7 @@ from __future__ import annotations
 import numpy as np
 
 # Query rows per matrix product. Small blocks keep the similarity block in cache for the selection that follows:
-# 20,000 x 10,000 at width 1,152 took 2.6 s in blocks of 512 against 3.9 s in blocks of 4,096 (median of 3).
+# 20,000 x 10,000 at width 1,152 took 2.7 s in blocks of 512 against 4.0 s in blocks of 4,096 (median of 3).
 TOPK_BLOCK = 512
 
 

@@ -87,7 +87,7 @@ def map_sources(store: Store, *, sources: list[str] | None = None, reference: st
     label_table = LabelTable([lab for j in range(len(concepts.uids))
                               for lab in (concepts.labels[j], *concepts.alt_labels[j]) if lab], None)
     # fused concept text vectors, shared by every source's plan (10k concepts: 46 MB each)
-    concept_text = stack_side([(concept_side[1][b], w) for _, b, w in DEFAULT_SIGNALS])
+    concept_text = fused_concept_text(concept_side[1])
     summary = {"reference": reference, "model": model.source, "auto_threshold": threshold, "sources": {}}
     plans = {}
     for key in targets:
@@ -120,6 +120,11 @@ def mapping_tags(store: Store, source: str, reference: str, pending: pd.DataFram
         pending = store.frame("categories_pending", scheme=source)
     suffix = f"|{embedder}|{ref_hash}|{hash_text(model)}"
     return {u: f"{h}{suffix}" for u, h in zip(pending["uid"], pending["content_hash"])}
+
+
+def fused_concept_text(cmats: dict[str, np.ndarray]) -> np.ndarray:
+    """The concept side of the fused text similarity (DEFAULT_SIGNALS), one row per concept."""
+    return stack_side([(cmats[b], w) for _, b, w in DEFAULT_SIGNALS])
 
 
 def categories_to_map(store: Store, source: str, reference: str) -> tuple[list[str], int]:
@@ -189,7 +194,7 @@ def _plan(store: Store, source: str, reference: str, concept_side, settings: Map
     cpos = {u: i for i, u in enumerate(concepts.uids)}
     todo = list(range(len(cats.uids))) if subset is None else sorted(kpos[u] for u in subset if u in kpos)
     if concept_text is None:
-        concept_text = stack_side([(cmats[b], w) for _, b, w in DEFAULT_SIGNALS])
+        concept_text = fused_concept_text(cmats)
     ev, fixed, excluded = _evidence_for(store, source, reference, cats, concepts, qmats, cmats, concept_text,
                                         settings, todo, kpos, cpos)
     ev.label_table = label_table

@@ -225,9 +225,10 @@ class LadybugStore(Store):
     def release_memory(self) -> None:
         """Close the engine and open it again, keeping the file lock. LadybugDB keeps what its queries and writes
         allocated until the database closes: at 1M items a full `run` held about 2 GB more by the map stage than
-        a run that reopened between stages (benchmarks/run.py --scale full). The reopen itself takes about 40 ms,
-        but closing checkpoints every table written since the last one, so below RELEASE_ABOVE_MB resident it
-        is not worth it (a nightly delta at 1M items paid 2.6 s for its reopens)."""
+        a run that reopened between stages (benchmarks/run.py --scale full). On a store with nothing to
+        checkpoint a reopen takes about 50 ms, but closing checkpoints every table written since the last one,
+        so below RELEASE_ABOVE_MB resident it is not worth it (a nightly delta at 1M items paid 2.9 s for its
+        reopens, 2.6 s of it closing)."""
         if self._tx_depth or self._db is None:
             return  # a transaction's state lives in the engine
         resident = _resident_mb()
