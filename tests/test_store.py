@@ -231,3 +231,38 @@ def test_an_interrupt_inside_the_engines_result_constructor_leaves_no_traceback(
     del half_built
     gc.collect()
     assert raised == []
+
+
+def test_a_store_made_before_forward_only_edges_is_rebuilt_with_every_edge(tmp_path):
+    # Earlier builds stored MAPS_TO both ways; opening such a store must rebuild it forward only, losing nothing.
+    import ladybug
+
+    path = tmp_path / "s.lbug"
+    with open_store(path):
+        pass
+    db = ladybug.Database(str(path))
+    conn = ladybug.Connection(db)
+    conn.execute("DROP TABLE MAPS_TO")
+    conn.execute("CREATE REL TABLE MAPS_TO(FROM Category TO Concept, score DOUBLE, rank INT64, match_type STRING, "
+                 "status STRING, method STRING, evidence STRING, run_id STRING, decided_by STRING, "
+                 "decided_at STRING, note STRING)")  # the earlier build's statement
+    conn.execute("CREATE (:Category {uid: 'shop:a', scheme: 'shop'}), (:Category {uid: 'shop:b', scheme: 'shop'}),"
+                 " (:Concept {uid: 'ref:1', scheme: 'ref'}), (:Concept {uid: 'ref:2', scheme: 'ref'})")
+    conn.execute("MATCH (a:Category), (b:Concept) CREATE (a)-[:MAPS_TO {score: 0.25, rank: 2, match_type: 'closeMatch',"
+                 " status: 'proposed', method: 'fused:default', evidence: '{\"text\": 0.5}', run_id: a.uid + b.uid,"
+                 " decided_by: '', decided_at: '', note: 'n'}]->(b)")
+    edges = ("MATCH (a:Category)-[m:MAPS_TO]->(b:Concept) RETURN a.uid AS cat, b.uid AS con, m.score AS score, "
+             "m.rank AS rank, m.match_type AS match_type, m.status AS status, m.method AS method, "
+             "m.evidence AS evidence, m.run_id AS run_id, m.note AS note ORDER BY cat, con")
+    before = conn.execute(edges).get_as_df()
+    conn.close()
+    db.close()
+    assert len(before) == 4
+    with open_store(path) as s:
+        after = s._conn.execute(edges).get_as_df()
+        direction = s._conn.execute("CALL table_info('MAPS_TO') RETURN DISTINCT storage_direction").get_as_df()
+        back = s._conn.execute("MATCH (k:Concept {uid: 'ref:2'})<-[:MAPS_TO]-(c:Category) RETURN c.uid AS cat "
+                               "ORDER BY cat").get_as_df()
+    pd.testing.assert_frame_equal(after, before)
+    assert direction["storage_direction"].tolist() == ["fwd"]
+    assert back["cat"].tolist() == ["shop:a", "shop:b"]  # a walk back from a concept still finds its categories
