@@ -139,20 +139,28 @@ def load_model(store: Store) -> ScoringModel:
     return ScoringModel.from_json(json.loads(stored)) if stored else ScoringModel()  # "" = forgotten
 
 
-def _load_side(store: Store, kind: str, scheme: str):
+def _load_side(store: Store, kind: str, scheme: str, needed=None):
+    """The hierarchy of `scheme` and its signal vectors. `needed(view)`: the uids whose vectors are used (the
+    other rows stay zero), for an incremental map that touches a few categories of a large source."""
     structure = store.frame("concept_structure" if kind == "Concept" else "category_structure", scheme=scheme)
     signals = ("path", "label", "gloss") if kind == "Concept" else ("path", "label")
     uids = sorted(set(structure["uid"])) if len(structure) else []
+    view = HierarchyView.from_rows(structure, order=uids)
+    owners = uids if needed is None else sorted(needed(view))
     mats, embedders = {}, set()
     for sig in signals:
-        vs = store.get_vectors(kind, sig, owners=uids)
-        if len(vs) != len(uids):
+        vs = store.get_vectors(kind, sig, owners=owners)
+        if len(vs) != len(owners):
             raise NotFound(
-                f"{len(uids) - len(vs)} {kind.lower()} vectors ({sig}) missing for {scheme!r}; run `graftwork embed`"
+                f"{len(owners) - len(vs)} {kind.lower()} vectors ({sig}) missing for {scheme!r}; run `graftwork embed`"
             )
-        mats[sig] = vs.matrix
+        if needed is None:
+            mats[sig] = vs.matrix
+        else:
+            mats[sig] = np.zeros((len(uids), vs.matrix.shape[1] if len(vs) else 1), dtype=np.float32)
+            pos = {u: i for i, u in enumerate(uids)}
+            mats[sig][[pos[o] for o in vs.owners]] = vs.matrix
         embedders |= set(vs.embedders)
-    view = HierarchyView.from_rows(structure, order=uids)
     return view, mats, embedders
 
 
@@ -186,7 +194,17 @@ def _plan(store: Store, source: str, reference: str, concept_side, settings: Map
           subset: list[str] | None, label_table: LabelTable | None = None,
           concept_text: np.ndarray | None = None) -> _Plan:
     concepts, cmats, c_emb = concept_side
-    cats, qmats, q_emb = _load_side(store, "Category", source)
+    needed = None
+    if subset is not None:
+        # Only the categories being mapped, and the labelled ones (neighbour votes, alignment), use vectors.
+        stored = stored_labels(store.scalar("meta_get", key=MODEL_KEY), source, reference)
+        decided = store.frame("decided_edges", source=source, reference=reference)
+        accepted = set(decided["category"][decided["status"] == "accepted"]) if len(decided) else set()
+
+        def needed(view: HierarchyView) -> set[str]:
+            labelled = {u for u, code in zip(view.uids, view.codes) if code in stored} | accepted
+            return (set(subset) | labelled) & set(view.uids)
+    cats, qmats, q_emb = _load_side(store, "Category", source, needed)
     if cats.uids and (c_emb != q_emb or len(c_emb) != 1):
         raise NotFound(f"vectors of {source!r} and {reference!r} come from different embedders "
                        f"({sorted(c_emb | q_emb)}); run `graftwork embed` again")
